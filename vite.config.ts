@@ -1,0 +1,35 @@
+import { fileURLToPath } from "node:url";
+import react from "@vitejs/plugin-react";
+import tailwindcss from "@tailwindcss/vite";
+import { defineConfig } from "vitest/config";
+
+const r = (p: string) => fileURLToPath(new URL(p, import.meta.url));
+
+export default defineConfig({
+  plugins: [react(), tailwindcss()],
+  resolve: {
+    alias: { "@/": r("./src/"), "@shared/": r("./shared/"), "@server/": r("./server/") },
+  },
+  server: { proxy: { "/api": "http://127.0.0.1:3000" } },
+  build: { chunkSizeWarningLimit: 1500 },
+  test: {
+    projects: [
+      {
+        extends: true,
+        test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node" },
+      },
+      {
+        extends: true,
+        test: {
+          name: "api",
+          include: ["tests/api/**/*.test.ts"],
+          environment: "node",
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 60_000,
+          globalSetup: ["tests/helpers/global-setup.ts"],
+        },
+      },
+    ],
+  },
+});
