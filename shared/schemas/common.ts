@@ -6,10 +6,25 @@ export const idParamsSchema = z.object({ id: idSchema });
 /** ISO 8601 instant with an explicit zone (Z or offset). */
 export const isoInstantSchema = z.iso.datetime({ offset: true, message: "Use an ISO 8601 time with a zone, e.g. 2026-03-05T12:00:00Z" });
 
-/** Optional text from a form: empty string becomes undefined. */
+/** Optional text from a form: blank becomes undefined. */
 export const optionalText = (max: number) =>
-  z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), z.string().trim().max(max, `At most ${max} characters`).optional());
+  z
+    .string()
+    .trim()
+    .max(max, `At most ${max} characters`)
+    .optional()
+    .transform((v) => (v === "" ? undefined : v));
 
-/** Optional number from a form: empty string / null becomes undefined. */
-export const optionalNumber = <T extends z.ZodType>(inner: T) =>
-  z.preprocess((v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v), inner.optional());
+/** An optional value whose blank form ("" from an empty input) means "not given". */
+export const blankable = <T extends z.ZodType<string>>(inner: T) =>
+  z
+    .union([z.literal(""), inner])
+    .optional()
+    .transform((v) => (v === "" ? undefined : (v as z.output<T> | undefined)));
+
+/** Optional number from a form: null or NaN (an empty number input) becomes undefined. */
+export const optionalNumber = <T extends z.ZodType<number>>(inner: T) =>
+  z
+    .union([inner, z.nan(), z.null()])
+    .optional()
+    .transform((v) => (v === null || v === undefined || Number.isNaN(v) ? undefined : (v as z.output<T>)));

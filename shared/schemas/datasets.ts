@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { idSchema, optionalText } from "./common";
+import { blankable, idSchema, optionalText } from "./common";
 import { platformKinds } from "./platforms";
 
 export const versionStates = [
@@ -22,7 +22,7 @@ export const licences = ["CC-BY-4.0", "CC-BY-SA-4.0", "CC0-1.0", "ODC-BY-1.0"] a
 export const createDatasetInputSchema = z.object({
   title: z.string().trim().min(3, "Title needs at least 3 characters").max(200, "At most 200 characters"),
   /** The deployment this series comes from; omit for a drifter-fleet dataset. */
-  deploymentId: z.preprocess((v) => (v === "" || v === null ? undefined : v), idSchema.optional()),
+  deploymentId: blankable(idSchema),
   description: optionalText(8000),
   licence: z.enum(licences, { message: "Choose a listed licence" }).default("CC-BY-4.0"),
 });

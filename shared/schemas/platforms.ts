@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { idSchema, isoInstantSchema, optionalNumber, optionalText } from "./common";
+import { blankable, idSchema, isoInstantSchema, optionalNumber, optionalText } from "./common";
 
 export const platformKinds = ["mooring", "drifter"] as const;
 export type PlatformKind = (typeof platformKinds)[number];
@@ -8,10 +8,7 @@ export const createPlatformInputSchema = z.object({
   name: z.string().trim().min(2, "Name needs at least 2 characters").max(120, "At most 120 characters"),
   kind: z.enum(platformKinds, { message: "Choose mooring or drifter" }),
   /** WMO identifier: 5 or 7 digits. */
-  wmoNumber: z.preprocess(
-    (v) => (v === "" || v === null ? undefined : v),
-    z.string().trim().regex(/^(\d{5}|\d{7})$/, "WMO number has 5 or 7 digits").optional(),
-  ),
+  wmoNumber: blankable(z.string().trim().regex(/^(\d{5}|\d{7})$/, "WMO number has 5 or 7 digits")),
   description: optionalText(4000),
 });
 export type CreatePlatformInput = z.infer<typeof createPlatformInputSchema>;
@@ -37,7 +34,7 @@ const positive = (label: string) => z.number({ message: `${label} must be a numb
 const deploymentFields = z.object({
   name: z.string().trim().min(2, "Name needs at least 2 characters").max(120, "At most 120 characters"),
   startTime: isoInstantSchema,
-  endTime: z.preprocess((v) => (v === "" || v === null ? undefined : v), isoInstantSchema.optional()),
+  endTime: blankable(isoInstantSchema),
   /** Nominal anchor position (moorings); drifters may leave it empty. */
   latitude: optionalNumber(lat),
   longitude: optionalNumber(lon),

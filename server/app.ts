@@ -1,0 +1,100 @@
+import { existsSync } from "node:fs";
+import { fileURLToPath } from "node:url";
+import express, { type Express, type RequestHandler } from "express";
+import helmet from "helmet";
+import { pinoHttp } from "pino-http";
+import { toNodeHandler } from "better-auth/node";
+import { sql } from "drizzle-orm";
+import { auth } from "./auth";
+import { db } from "./db/client";
+import { env } from "./env";
+import { logger } from "./lib/logger";
+import { errorHandler, notFoundHandler } from "./middleware/error-handler";
+import { authRateLimit, SENSITIVE_AUTH_PATHS } from "./middleware/rate-limit";
+import { requestId } from "./middleware/request-id";
+import { adminApi, meApi } from "./routes/admin";
+import { catalogueApi, datasetsApi, reviewApi } from "./routes/datasets";
+import { deploymentsApi, platformsApi } from "./routes/platforms";
+import { projectsApi } from "./routes/projects";
+
+export interface AppOptions {
+  /** Sign-in attempts per window per IP (defaults from env). */
+  authRateLimit?: number;
+  /** Serve the built client from dist/ (off in API tests). */
+  serveClient?: boolean;
+}
+
+const distDir = fileURLToPath(new URL("../dist", import.meta.url));
+
+/** Builds the Express app: middleware order, routers, error handler. Never listens. */
+export function createApp(options: AppOptions = {}): Express {
+  const app = express();
+  app.disable("x-powered-by");
+  app.set("trust proxy", process.env.TRUST_PROXY === "1" ? 1 : false);
+
+  app.use(requestId);
+  app.use(
+    pinoHttp({
+      logger,
+      genReqId: (req) => (req as express.Request).id,
+      autoLogging: { ignore: (req) => req.url === "/api/health" },
+      serializers: {
+        req: (r: { id: string; method: string; url: string }) => ({ id: r.id, method: r.method, url: r.url.split("?")[0] }),
+        res: (r: { statusCode: number }) => ({ statusCode: r.statusCode }),
+      },
+    }),
+  );
+  const https = env.PUBLIC_URL.startsWith("https://");
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", "data:", "blob:"],
+          fontSrc: ["'self'"],
+          connectSrc: ["'self'"],
+          workerSrc: ["'self'", "blob:"],
+          objectSrc: ["'none'"],
+          frameAncestors: ["'none'"],
+          baseUri: ["'self'"],
+          formAction: ["'self'"],
+          ...(https ? { upgradeInsecureRequests: [] } : {}),
+        },
+      },
+      strictTransportSecurity: https,
+      referrerPolicy: { policy: "strict-origin-when-cross-origin" },
+    }),
+  );
+
+  // better-auth and (later) tus read the raw request stream, so they come before the JSON body parser.
+  app.use(SENSITIVE_AUTH_PATHS, authRateLimit(options.authRateLimit ?? env.AUTH_RATE_LIMIT, env.AUTH_RATE_WINDOW_S));
+  app.all("/api/auth/{*any}", toNodeHandler(auth));
+
+  app.use(express.json({ limit: "1mb" }));
+
+  // GET /api/health
+  app.get("/api/health", (async (_req, res) => {
+    try {
+      await db.execute(sql`select 1`);
+      res.json({ ok: true });
+    } catch {
+      res.status(503).json({ ok: false, error: { code: "unavailable", message: "The database is not reachable" } });
+    }
+  }) as RequestHandler);
+
+  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi]) {
+    app.use(api.base, api.router);
+  }
+  app.use("/api", notFoundHandler);
+
+  if (options.serveClient !== false && existsSync(distDir)) {
+    app.use(express.static(distDir, { index: false, maxAge: "1h" }));
+    app.get("/{*any}", (_req, res) => res.sendFile("index.html", { root: distDir }));
+  }
+
+  app.use(errorHandler);
+  return app;
+}
