@@ -1,0 +1,48 @@
+import { createBrowserRouter, RouterProvider } from "react-router-dom";
+import { AppShell } from "@/components/layout/app-shell";
+import { RequireAuth } from "@/components/layout/require-auth";
+import { RouteError } from "@/components/layout/route-error";
+
+const router = createBrowserRouter([
+  {
+    element: <AppShell />,
+    errorElement: <RouteError />,
+    children: [
+      {
+        errorElement: <RouteError />,
+        children: [
+          { index: true, lazy: () => import("@/routes/catalogue/catalogue") },
+          { path: "sign-in", lazy: () => import("@/routes/auth/sign-in") },
+          { path: "sign-up", lazy: () => import("@/routes/auth/sign-up") },
+          { path: "verified", lazy: () => import("@/routes/auth/verified") },
+          { path: "forgot-password", lazy: () => import("@/routes/auth/forgot-password") },
+          { path: "reset-password", lazy: () => import("@/routes/auth/reset-password") },
+          { path: "datasets/:datasetId", lazy: () => import("@/routes/datasets/dataset-detail") },
+          {
+            element: <RequireAuth />,
+            children: [
+              { path: "projects", lazy: () => import("@/routes/projects/project-list") },
+              { path: "projects/:projectId", lazy: () => import("@/routes/projects/project-detail") },
+              { path: "platforms/:platformId", lazy: () => import("@/routes/platforms/platform-detail") },
+              { path: "review", lazy: () => import("@/routes/review/review-queue") },
+            ],
+          },
+          {
+            path: "admin",
+            element: <RequireAuth admin />,
+            children: [
+              { path: "users", lazy: () => import("@/routes/admin/users") },
+              { path: "mail", lazy: () => import("@/routes/admin/mail") },
+              { path: "mail/:messageId", lazy: () => import("@/routes/admin/mail") },
+            ],
+          },
+          { path: "*", lazy: () => import("@/routes/not-found") },
+        ],
+      },
+    ],
+  },
+]);
+
+export function AppRouter() {
+  return <RouterProvider router={router} />;
+}

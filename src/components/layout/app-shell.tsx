@@ -1,0 +1,98 @@
+import clsx from "clsx";
+import { Link, NavLink, Outlet, useNavigate } from "react-router-dom";
+import { paths } from "@/config/paths";
+import { isCuratorAnywhere, useMe, useSignOut } from "@/lib/session";
+import { Wordmark } from "@/components/ui/logo";
+import { Toaster } from "@/components/ui/toaster";
+import { buttonClass } from "@/components/ui/button";
+import { ThemeToggle } from "./theme-toggle";
+
+function NavItem({ to, children, end }: { to: string; children: React.ReactNode; end?: boolean }) {
+  return (
+    <NavLink
+      to={to}
+      end={end}
+      className={({ isActive }) =>
+        clsx(
+          "whitespace-nowrap rounded-md px-2.5 py-1.5 text-[0.95rem] font-semibold no-underline",
+          isActive ? "bg-sunken text-fg shadow-[inset_0_-2px_0_var(--t-signal-fill)]" : "text-muted hover:bg-sunken hover:text-fg",
+        )
+      }
+    >
+      {children}
+    </NavLink>
+  );
+}
+
+export function AppShell() {
+  const { data: me } = useMe();
+  const signOut = useSignOut();
+  const navigate = useNavigate();
+
+  return (
+    <div className="flex min-h-screen flex-col">
+      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-surface focus:px-3 focus:py-2">
+        Skip to content
+      </a>
+      <header className="border-b border-line bg-surface">
+        <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-4 gap-y-2 px-4 py-2.5">
+          <Link to={paths.home()} className="text-fg no-underline hover:text-fg" aria-label="Tauline home">
+            <Wordmark />
+          </Link>
+          <nav aria-label="Main" className="order-3 -mx-1 flex w-full gap-1 overflow-x-auto pb-1 sm:order-none sm:w-auto sm:pb-0">
+            <NavItem to={paths.home()} end>
+              Catalogue
+            </NavItem>
+            {me ? <NavItem to={paths.projects()}>My projects</NavItem> : null}
+            {isCuratorAnywhere(me) ? <NavItem to={paths.reviewQueue()}>Review queue</NavItem> : null}
+            {me?.user.isAdmin ? <NavItem to={paths.adminUsers()}>Users</NavItem> : null}
+            {me?.user.isAdmin ? <NavItem to={paths.adminMail()}>Outgoing mail</NavItem> : null}
+          </nav>
+          <div className="ml-auto flex items-center gap-2">
+            <ThemeToggle />
+            {me ? (
+              <>
+                <span className="hidden text-sm text-muted md:inline" data-testid="signed-in-as">
+                  {me.user.name}
+                  {me.user.isAdmin ? " · admin" : ""}
+                </span>
+                <button
+                  type="button"
+                  className={buttonClass("secondary", "sm")}
+                  onClick={async () => {
+                    await signOut();
+                    navigate(paths.signIn());
+                  }}
+                >
+                  Sign out
+                </button>
+              </>
+            ) : me === null ? (
+              <>
+                <Link to={paths.signIn()} className={buttonClass("secondary", "sm")}>
+                  Sign in
+                </Link>
+                <Link to={paths.signUp()} className={clsx(buttonClass("primary", "sm"), "hidden sm:inline-flex")}>
+                  Create account
+                </Link>
+              </>
+            ) : null}
+          </div>
+        </div>
+      </header>
+      <main id="main" tabIndex={-1} className="mx-auto w-full max-w-6xl flex-1 px-4 py-6 outline-none sm:py-8">
+        <Outlet />
+      </main>
+      <footer className="border-t border-line bg-surface">
+        <div className="mx-auto flex max-w-6xl flex-col gap-1 px-4 py-4 text-sm text-muted sm:flex-row sm:justify-between">
+          <p className="max-w-3xl">
+            Derived diagnostics are scientific estimates, not guidance for navigation, offshore operations or safety. Defer to official forecasts, local
+            regulations and qualified practice.
+          </p>
+          <p className="whitespace-nowrap">All times in UTC.</p>
+        </div>
+      </footer>
+      <Toaster />
+    </div>
+  );
+}

@@ -1,0 +1,67 @@
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useState } from "react";
+import { useForm } from "react-hook-form";
+import { createProjectInputSchema, type CreateProjectInput, type Project } from "@shared/schemas/projects";
+import type { z } from "zod";
+import { applyServerErrors } from "@/lib/form-errors";
+import { Alert } from "@/components/ui/alert";
+import { Button } from "@/components/ui/button";
+import { TextareaField, TextField } from "@/components/ui/field";
+import { useCreateProject } from "../api/create-project";
+
+const fields = ["name", "slug", "description"] as const;
+
+const slugify = (s: string) =>
+  s
+    .toLowerCase()
+    .normalize("NFKD")
+    .replace(/[^a-z0-9]+/g, "-")
+    .replace(/^-+|-+$/g, "")
+    .slice(0, 40);
+
+export function CreateProjectForm({ onDone, onCancel }: { onDone: (p: Project) => void; onCancel: () => void }) {
+  const create = useCreateProject();
+  const [formError, setFormError] = useState<string | null>(null);
+  const { register, handleSubmit, formState, setError, setValue, getFieldState } = useForm<z.input<typeof createProjectInputSchema>, unknown, CreateProjectInput>({
+    resolver: zodResolver(createProjectInputSchema),
+  });
+
+  const onSubmit = handleSubmit(async (v) => {
+    setFormError(null);
+    try {
+      onDone(await create.mutateAsync(v));
+    } catch (err) {
+      setFormError(applyServerErrors(err, setError, fields));
+    }
+  });
+
+  return (
+    <form onSubmit={onSubmit} noValidate className="grid gap-4 sm:grid-cols-2" aria-label="New project">
+      {formError ? <Alert tone="attention" className="sm:col-span-2">{formError}</Alert> : null}
+      <TextField
+        label="Project name"
+        error={formState.errors.name?.message}
+        {...register("name", {
+          onChange: (e) => {
+            if (!getFieldState("slug").isDirty) setValue("slug", slugify(e.target.value));
+          },
+        })}
+      />
+      <TextField
+        label="Short name"
+        hint="Used in links and file names: lower-case letters, digits and hyphens."
+        error={formState.errors.slug?.message}
+        {...register("slug")}
+      />
+      <TextareaField className="sm:col-span-2" label="Description (optional)" error={formState.errors.description?.message} {...register("description")} />
+      <div className="flex gap-2 sm:col-span-2">
+        <Button type="submit" busy={formState.isSubmitting} disabled={formState.isSubmitting}>
+          Create project
+        </Button>
+        <Button variant="secondary" onClick={onCancel}>
+          Cancel
+        </Button>
+      </div>
+    </form>
+  );
+}

@@ -1,0 +1,138 @@
+import { useState } from "react";
+import { Link, useParams } from "react-router-dom";
+import { paths } from "@/config/paths";
+import { formatUtc } from "@/lib/format";
+import { showToast } from "@/lib/toast";
+import { canContribute, useMe } from "@/lib/session";
+import { Alert } from "@/components/ui/alert";
+import { Button } from "@/components/ui/button";
+import { EmptyState } from "@/components/ui/empty-state";
+import { FlagLegend } from "@/components/ui/flag-badge";
+import { KindLabel } from "@/components/ui/kind-label";
+import { Loading } from "@/components/ui/loading";
+import { PageHeader } from "@/components/ui/page-header";
+import { Panel, Section } from "@/components/ui/section";
+import { StateBadge } from "@/components/ui/state-badge";
+import { useDataset } from "@/features/datasets/api/get-dataset";
+import { EditDatasetForm } from "@/features/datasets/components/dataset-form";
+import { VersionsTable } from "@/features/datasets/components/versions-table";
+
+export function Component() {
+  const { datasetId = "" } = useParams();
+  const { data: d, isPending, error } = useDataset(datasetId);
+  const { data: me } = useMe();
+  const [editing, setEditing] = useState(false);
+  if (isPending) return <Loading label="Loading the dataset…" />;
+  if (error) throw error;
+  const member = canContribute(me, d.projectId);
+
+  return (
+    <>
+      <PageHeader
+        eyebrow={
+          <nav aria-label="Breadcrumb" className="flex flex-wrap gap-1">
+            {member ? (
+              <>
+                <Link to={paths.project(d.projectId)}>{d.projectName}</Link> <span aria-hidden>/</span>
+              </>
+            ) : (
+              <>
+                <Link to={paths.catalogue()}>Catalogue</Link> <span aria-hidden>/</span> <span>{d.projectName}</span>
+              </>
+            )}
+          </nav>
+        }
+        title={d.title}
+        actions={member && !editing ? <Button variant="secondary" onClick={() => setEditing(true)}>Edit details</Button> : null}
+      />
+
+      {editing ? (
+        <Panel className="mb-8">
+          <h2 className="mb-3 text-lg font-semibold">Edit dataset</h2>
+          <EditDatasetForm
+            dataset={d}
+            onCancel={() => setEditing(false)}
+            onDone={() => {
+              setEditing(false);
+              showToast("Dataset saved.", "success");
+            }}
+          />
+        </Panel>
+      ) : null}
+
+      <div className="grid gap-8 lg:grid-cols-[1fr_20rem]">
+        <div className="min-w-0 space-y-10">
+          {d.description ? <p className="max-w-3xl whitespace-pre-line">{d.description}</p> : null}
+
+          <Section title="Versions" description="Each version is built from an upload, checked, reviewed by a curator, then released unchanged.">
+            {d.versions.length === 0 ? (
+              <EmptyState title="No versions yet">
+                {member
+                  ? "The first version is created when a logger file is uploaded and processed."
+                  : "Nothing has been released for this dataset yet."}
+              </EmptyState>
+            ) : (
+              <VersionsTable items={d.versions} />
+            )}
+          </Section>
+
+          {member ? (
+            <Section title="Uploads" description="Logger files for this dataset.">
+              <div data-testid="uploads-area" className="rounded-lg border-2 border-dashed border-line bg-sunken/50 px-5 py-10 text-center">
+                <p className="text-lg font-semibold">Uploads arrive here</p>
+                <p className="mx-auto mt-1 max-w-prose text-muted">
+                  Resumable uploads of logger files, column mapping and processing are being added to Tauline. Until then, datasets and deployments can be
+                  prepared.
+                </p>
+              </div>
+            </Section>
+          ) : null}
+        </div>
+
+        <aside aria-label="Dataset details" className="space-y-4">
+          <Panel>
+            <h2 className="mb-3 font-semibold">Details</h2>
+            <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-2 text-[0.95rem]">
+              <dt className="text-muted">Project</dt>
+              <dd>{d.projectName}</dd>
+              <dt className="text-muted">Platform</dt>
+              <dd>
+                {d.platformName ?? "Drifter fleet"}
+                {d.platformKind ? (
+                  <div className="text-sm text-muted">
+                    <KindLabel kind={d.platformKind} />
+                  </div>
+                ) : null}
+              </dd>
+              <dt className="text-muted">Deployment</dt>
+              <dd>{d.deploymentName ?? "—"}</dd>
+              <dt className="text-muted">Licence</dt>
+              <dd>{d.licence}</dd>
+              <dt className="text-muted">Created</dt>
+              <dd className="num">{formatUtc(d.createdAt)}</dd>
+              <dt className="text-muted">Latest release</dt>
+              <dd>
+                {d.latestRelease ? (
+                  <span className="inline-flex flex-wrap items-center gap-1.5">
+                    <span className="num">v{d.latestRelease.number}</span> <StateBadge state={d.latestRelease.state} />
+                  </span>
+                ) : (
+                  <span className="text-muted">none yet</span>
+                )}
+              </dd>
+            </dl>
+          </Panel>
+          <Panel>
+            <h2 className="mb-2 font-semibold">QC flags</h2>
+            <p className="mb-3 text-sm text-muted">Every value carries one of these flags; derived values take the worst flag of their inputs.</p>
+            <FlagLegend />
+          </Panel>
+          {!member && d.latestRelease ? (
+            <Alert tone="info">Downloads of released versions are being added. Cite the dataset title, version and licence shown here.</Alert>
+          ) : null}
+        </aside>
+      </div>
+    </>
+  );
+}
+export { RouteError as ErrorBoundary } from "@/components/layout/route-error";

@@ -1,0 +1,183 @@
+import { useQueries } from "@tanstack/react-query";
+import { useState } from "react";
+import { Link, useNavigate, useParams } from "react-router-dom";
+import { paths } from "@/config/paths";
+import { getErrorMessage } from "@/lib/api-client";
+import { formatUtcDate } from "@/lib/format";
+import { canContribute, roleIn, useMe } from "@/lib/session";
+import { Alert } from "@/components/ui/alert";
+import { Button } from "@/components/ui/button";
+import { EmptyState } from "@/components/ui/empty-state";
+import { Loading } from "@/components/ui/loading";
+import { PageHeader } from "@/components/ui/page-header";
+import { Panel, Section } from "@/components/ui/section";
+import { RoleBadge } from "@/components/ui/state-badge";
+import { useProject } from "@/features/projects/api/get-project";
+import { usePlatforms } from "@/features/platforms/api/get-platforms";
+import { CreatePlatformForm } from "@/features/platforms/components/platform-form";
+import { PlatformTable } from "@/features/platforms/components/platform-table";
+import { deploymentsQueryOptions } from "@/features/deployments/api/get-deployments";
+import { useDatasets } from "@/features/datasets/api/get-datasets";
+import { CreateDatasetForm } from "@/features/datasets/components/dataset-form";
+import { DatasetTable } from "@/features/datasets/components/dataset-table";
+import { useMembers } from "@/features/members/api/get-members";
+import { AddMemberForm, MembersTable } from "@/features/members/components/members-panel";
+
+function PlatformsSection({ projectId, canAdd }: { projectId: string; canAdd: boolean }) {
+  const { data, isPending, error } = usePlatforms(projectId);
+  const [creating, setCreating] = useState(false);
+  const navigate = useNavigate();
+  return (
+    <Section
+      title="Platforms"
+      description="Moorings and drifters of this project."
+      action={canAdd && !creating ? <Button onClick={() => setCreating(true)}>New platform</Button> : null}
+    >
+      {creating ? (
+        <Panel>
+          <h3 className="mb-3 font-semibold">New platform</h3>
+          <CreatePlatformForm projectId={projectId} onCancel={() => setCreating(false)} onDone={(p) => navigate(paths.platform(p.id))} />
+        </Panel>
+      ) : null}
+      {isPending ? (
+        <Loading />
+      ) : error ? (
+        <Alert tone="attention">{getErrorMessage(error)}</Alert>
+      ) : data.items.length === 0 ? (
+        <EmptyState title="No platforms yet">
+          {canAdd ? "Add each mooring or drifter with “New platform”; then record its deployments." : "Contributors of this project add moorings and drifters here."}
+        </EmptyState>
+      ) : (
+        <PlatformTable items={data.items} />
+      )}
+    </Section>
+  );
+}
+
+function DatasetsSection({ projectId, canAdd }: { projectId: string; canAdd: boolean }) {
+  const { data, isPending, error } = useDatasets(projectId);
+  const platforms = usePlatforms(projectId);
+  const [creating, setCreating] = useState(false);
+  const navigate = useNavigate();
+  const deploymentQueries = useQueries({
+    queries: creating ? (platforms.data?.items ?? []).map((p) => deploymentsQueryOptions(p.id)) : [],
+  });
+  const deploymentOptions = (platforms.data?.items ?? []).flatMap((p, i) =>
+    (deploymentQueries[i]?.data?.items ?? []).map((d) => ({ value: d.id, label: `${p.name} · ${d.name} (from ${formatUtcDate(d.startTime)})` })),
+  );
+  return (
+    <Section
+      title="Datasets"
+      description="Curated series, one per deployment or drifter fleet. Each has numbered versions."
+      action={canAdd && !creating ? <Button onClick={() => setCreating(true)}>New dataset</Button> : null}
+    >
+      {creating ? (
+        <Panel>
+          <h3 className="mb-3 font-semibold">New dataset</h3>
+          <CreateDatasetForm
+            projectId={projectId}
+            deploymentOptions={deploymentOptions}
+            onCancel={() => setCreating(false)}
+            onDone={(d) => navigate(paths.dataset(d.id))}
+          />
+        </Panel>
+      ) : null}
+      {isPending ? (
+        <Loading />
+      ) : error ? (
+        <Alert tone="attention">{getErrorMessage(error)}</Alert>
+      ) : data.items.length === 0 ? (
+        <EmptyState title="No datasets yet">
+          {canAdd
+            ? "Create a dataset for a deployment with “New dataset”. Uploads and versions then live on the dataset's page."
+            : "Contributors of this project create datasets here."}
+        </EmptyState>
+      ) : (
+        <DatasetTable items={data.items} />
+      )}
+    </Section>
+  );
+}
+
+function MembersSection({ projectId, canManage }: { projectId: string; canManage: boolean }) {
+  const { data, isPending, error } = useMembers(projectId);
+  return (
+    <Section
+      title="Members"
+      description="Contributors upload and prepare versions; curators review versions uploaded by someone else and release them."
+    >
+      {canManage ? <AddMemberForm projectId={projectId} /> : null}
+      {isPending ? (
+        <Loading />
+      ) : error ? (
+        <Alert tone="attention">{getErrorMessage(error)}</Alert>
+      ) : (
+        <MembersTable projectId={projectId} items={data.items} canManage={canManage} />
+      )}
+    </Section>
+  );
+}
+
+export function Component() {
+  const { projectId = "" } = useParams();
+  const { data: project, isPending, error } = useProject(projectId);
+  const { data: me } = useMe();
+  if (isPending) return <Loading label="Loading the project…" />;
+  if (error) throw error;
+  const role = roleIn(me, projectId) ?? project.myRole;
+  const isAdmin = !!me?.user.isAdmin;
+  const contribute = canContribute(me, projectId) || role !== null;
+
+  return (
+    <>
+      <PageHeader
+        eyebrow={
+          <nav aria-label="Breadcrumb">
+            <Link to={paths.projects()}>My projects</Link> <span aria-hidden>/</span>
+          </nav>
+        }
+        title={project.name}
+        description={
+          <>
+            <span className="num text-sm">{project.slug}</span>
+            {role ? (
+              <span className="ml-2 inline-flex items-center gap-1 text-sm">
+                Your role: <RoleBadge role={role} />
+              </span>
+            ) : isAdmin ? (
+              <span className="ml-2 text-sm">You see this project as administrator.</span>
+            ) : null}
+            {project.description ? <p className="mt-2">{project.description}</p> : null}
+          </>
+        }
+      />
+      {project.counts ? (
+        <dl className="mb-8 grid grid-cols-3 gap-3 sm:max-w-lg">
+          {(
+            [
+              ["Platforms", project.counts.platforms],
+              ["Datasets", project.counts.datasets],
+              ["Members", project.counts.members],
+            ] as const
+          ).map(([k, n]) => (
+            <div key={k} className="rounded-lg border border-line bg-surface px-3 py-2">
+              <dt className="text-sm text-muted">{k}</dt>
+              <dd className="num text-xl">{n}</dd>
+            </div>
+          ))}
+        </dl>
+      ) : null}
+      {!contribute && !isAdmin ? (
+        <Alert className="mb-6" tone="info">
+          You can look at this project but not change it. Ask an administrator to add you as a contributor.
+        </Alert>
+      ) : null}
+      <div className="space-y-10">
+        <PlatformsSection projectId={projectId} canAdd={contribute} />
+        <DatasetsSection projectId={projectId} canAdd={contribute} />
+        <MembersSection projectId={projectId} canManage={isAdmin} />
+      </div>
+    </>
+  );
+}
+export { RouteError as ErrorBoundary } from "@/components/layout/route-error";
