@@ -1,0 +1,668 @@
+import type { QcSettings, VariableQc } from "../schemas/qc-settings";
+import { measuredVariables, type DerivedVariable, type MeasuredVariable } from "../vocabulary";
+import type { RecordChunk } from "./canonical";
+import { buildProvenance, computeDiagnostics, type DeploymentContext, type Provenance } from "./diagnostics";
+import { fromBearing, windU, windV, currentU, currentV, wrap180 } from "./directions";
+import { FLAG, TEST, aggregateFlag, worseDerivedFlag } from "./flags";
+import { haversine, fixVelocity } from "./geodesy";
+import { daysFromCivil } from "./canonical";
+
+/**
+ * The streaming QC + diagnostics engine. Feed canonical chunks in file order with `push`, then call `finish`.
+ * Each call returns the records whose flags are final, in input order. Window tests (spike, rate of change, flat
+ * line, timing) and drifter legs carry their state per platform between chunks, so any split of the input gives
+ * identical output. A spike verdict on a value needs the platform's next value, so a platform's latest record is
+ * held back until that arrives (or until `finish`): for a file that interleaves platforms or holds one, the lag is
+ * a record or so; a file sorted platform by platform holds the tail of each platform block until the next record
+ * of that platform or the end.
+ */
+export interface Engine {
+  push(chunk: RecordChunk): EngineBlock;
+  finish(): EngineBlock;
+  /** Counts so far (complete after `finish`). */
+  summary(): RunSummary;
+  readonly provenance: Provenance;
+  /** Measured variables the engine evaluates (those in the map, plus wind components it fills in). */
+  readonly variables: MeasuredVariable[];
+}
+
+/** Final results for a run of records. Arrays are fresh copies owned by the caller. */
+export interface EngineBlock {
+  /** Index of the first record since the start of the run. */
+  start: number;
+  n: number;
+  time: Float64Array;
+  platform: Int32Array | null;
+  line: Float64Array;
+  values: Partial<Record<MeasuredVariable, Float64Array>>;
+  /** Aggregate flag per record: 1, 2, 3, 4 or 9. */
+  flags: Partial<Record<MeasuredVariable, Uint8Array>>;
+  /** Which tests raised the flag: bit t = suspect, bit 16+t = fail, for t in flags.ts TEST. */
+  tests: Partial<Record<MeasuredVariable, Uint32Array>>;
+  derived: Partial<Record<DerivedVariable, Float64Array>>;
+  derivedFlags: Partial<Record<DerivedVariable, Uint8Array>>;
+}
+
+export interface RunSummary {
+  rows: number;
+  timeMin: number;
+  timeMax: number;
+  platforms: number;
+  /** Per variable: count of each aggregate flag value (index = flag). */
+  flagCounts: Partial<Record<MeasuredVariable | DerivedVariable, number[]>>;
+  /** Per variable: per test name, [suspect, fail] counts. */
+  testCounts: Partial<Record<MeasuredVariable, Record<string, [number, number]>>>;
+  /** Reasons for "not evaluated" results, with counts. */
+  notes: Record<string, number>;
+}
+
+const SUSPECT_BIT = (t: number) => 1 << t;
+const FAIL_BIT = (t: number) => 1 << (16 + t);
+/** Set on a wind direction word when the wind is calm: the direction is undefined and flagged 2. */
+export const CALM_BIT = 1 << 31;
+
+interface VarState {
+  // spike
+  p1: number;
+  p2: number;
+  p1Idx: number;
+  nPrev: number;
+  // rate of change: ring of (time, value − ref) over the trailing window
+  rocT: Float64Array;
+  rocV: Float64Array;
+  rocHead: number;
+  rocSize: number;
+  rocSum: number;
+  rocSq: number;
+  ref: number;
+  prev: number;
+  // flat line: last values, newest at flat[(flatPos-1) mod K]
+  flat: Float64Array;
+  flatPos: number;
+  flatSize: number;
+}
+
+interface PlatformState {
+  lastTime: number;
+  /** Buffer index of the latest accepted record, waiting for the next; −1 when none. */
+  pending: number;
+  vars: (VarState | null)[];
+  // positions for drifters
+  fixIdx: number;
+  fixLat: number;
+  fixLon: number;
+  fixTime: number;
+  prevLat: number;
+  prevLon: number;
+  prevTime: number;
+  prevLeg: number;
+  // wind direction for the multi-variate step check
+  lastDir: number;
+}
+
+function newVarState(q: VariableQc | undefined): VarState {
+  const k = q?.flatLine ? Math.max(q.flatLine.failCount, q.flatLine.suspectCount) : 0;
+  const cap = 16;
+  return {
+    p1: NaN, p2: NaN, p1Idx: -1, nPrev: 0,
+    rocT: new Float64Array(q?.rateOfChange ? cap : 0), rocV: new Float64Array(q?.rateOfChange ? cap : 0),
+    rocHead: 0, rocSize: 0, rocSum: 0, rocSq: 0, ref: NaN, prev: NaN,
+    flat: new Float64Array(k), flatPos: 0, flatSize: 0,
+  };
+}
+
+/** Grows a typed array, keeping the first `keep` items. */
+function grow<T extends Float64Array | Uint8Array | Uint32Array | Int32Array>(a: T, cap: number, keep: number): T {
+  const b = new (a.constructor as new (n: number) => T)(cap);
+  b.set(a.subarray(0, keep) as never);
+  return b;
+}
+
+/**
+ * Creates an engine for one deployment (or one fleet file). `variables` are the measured variables the input
+ * chunks will carry (e.g. `canonicalizer.variables`). Cost per record O(variables), plus O(window) memory per
+ * variable and platform for the rate-of-change window.
+ */
+export function createEngine(settings: QcSettings, ctx: DeploymentContext, inputVariables: readonly MeasuredVariable[]): Engine {
+  const present = new Set(inputVariables);
+  // Fill the other wind and current representation so QC and diagnostics see both.
+  const fillWindUV = present.has("wind_speed") && present.has("wind_from_direction") && !(present.has("eastward_wind") && present.has("northward_wind"));
+  const fillWindSD = !fillWindUV && present.has("eastward_wind") && present.has("northward_wind") && !present.has("wind_speed");
+  const fillCurUV = present.has("sea_water_speed") && present.has("sea_water_velocity_to_direction") && !(present.has("eastward_sea_water_velocity") && present.has("northward_sea_water_velocity"));
+  if (fillWindUV) present.add("eastward_wind").add("northward_wind");
+  if (fillWindSD) present.add("wind_speed").add("wind_from_direction");
+  if (fillCurUV) present.add("eastward_sea_water_velocity").add("northward_sea_water_velocity");
+  const vars = measuredVariables.filter((v) => present.has(v));
+  const nv = vars.length;
+  const qcs = vars.map((v) => settings.variables[v]);
+  const hasPos = present.has("latitude") && present.has("longitude");
+  const drifter = ctx.platformKind === "drifter" && hasPos;
+  const needsLookahead = drifter || qcs.some((q) => q?.spike);
+  const provenance = buildProvenance(settings, ctx);
+  const iWs = vars.indexOf("wind_speed");
+  const iWd = vars.indexOf("wind_from_direction");
+  const iGust = vars.indexOf("wind_speed_of_gust");
+  const iLat = vars.indexOf("latitude");
+  const iLon = vars.indexOf("longitude");
+  const timing = settings.timing;
+  const maxGap = timing.expectedIntervalS === null ? Infinity : timing.expectedIntervalS * timing.gapFactor;
+  const mv = settings.multiVariate;
+  const watchR = settings.location.watchCircleM;
+  const nomLat = ctx.latitude ?? NaN;
+  const nomLon = ctx.longitude ?? NaN;
+
+  // Working buffer: the records not yet emitted.
+  let cap = 0;
+  let n = 0;
+  let time = new Float64Array(0);
+  let plat = new Int32Array(0);
+  let line = new Float64Array(0);
+  let acc = new Uint8Array(0);
+  let recFlag = new Uint8Array(0);
+  let recTests = new Uint32Array(0);
+  let posFlag = new Uint8Array(0);
+  let posTests = new Uint32Array(0);
+  let dU = new Float64Array(0);
+  let dV = new Float64Array(0);
+  let dS = new Float64Array(0);
+  const val: Float64Array[] = vars.map(() => new Float64Array(0));
+  const flg: Uint8Array[] = vars.map(() => new Uint8Array(0));
+  const tst: Uint32Array[] = vars.map(() => new Uint32Array(0));
+  const bad: Uint8Array[] = vars.map(() => new Uint8Array(0));
+  let hasPlatform = false;
+  let emitted = 0;
+
+  const platforms: PlatformState[] = [];
+  const platformState = (p: number): PlatformState => {
+    let s = platforms[p];
+    if (!s) {
+      s = {
+        lastTime: NaN, pending: -1, vars: qcs.map((q) => newVarState(q)),
+        fixIdx: -1, fixLat: NaN, fixLon: NaN, fixTime: NaN, prevLat: NaN, prevLon: NaN, prevTime: NaN, prevLeg: NaN,
+        lastDir: NaN,
+      };
+      platforms[p] = s;
+    }
+    return s;
+  };
+
+  const summary: RunSummary = { rows: 0, timeMin: Infinity, timeMax: -Infinity, platforms: 0, flagCounts: {}, testCounts: {}, notes: {} };
+
+  function ensure(extra: number) {
+    if (n + extra <= cap) return;
+    cap = Math.max(n + extra, cap * 2, 1024);
+    time = grow(time, cap, n);
+    plat = grow(plat, cap, n);
+    line = grow(line, cap, n);
+    acc = grow(acc, cap, n);
+    recFlag = grow(recFlag, cap, n);
+    recTests = grow(recTests, cap, n);
+    posFlag = grow(posFlag, cap, n);
+    posTests = grow(posTests, cap, n);
+    dU = grow(dU, cap, n);
+    dV = grow(dV, cap, n);
+    dS = grow(dS, cap, n);
+    for (let k = 0; k < nv; k++) {
+      val[k] = grow(val[k]!, cap, n);
+      flg[k] = grow(flg[k]!, cap, n);
+      tst[k] = grow(tst[k]!, cap, n);
+      bad[k] = grow(bad[k]!, cap, n);
+    }
+  }
+
+  function raise(f: Uint8Array, t: Uint32Array, i: number, flag: number, test: number) {
+    if (flag > f[i]!) f[i] = flag;
+    if (flag === FLAG.SUSPECT) t[i]! |= SUSPECT_BIT(test);
+    else if (flag === FLAG.FAIL) t[i]! |= FAIL_BIT(test);
+  }
+
+  function append(c: RecordChunk) {
+    ensure(c.n);
+    const from = n;
+    time.set(c.time, from);
+    line.set(c.line, from);
+    if (c.platform) {
+      plat.set(c.platform, from);
+      hasPlatform = true;
+    } else plat.fill(0, from, from + c.n);
+    recFlag.fill(0, from, from + c.n);
+    recTests.fill(0, from, from + c.n);
+    posFlag.fill(0, from, from + c.n);
+    posTests.fill(0, from, from + c.n);
+    dU.fill(NaN, from, from + c.n);
+    dV.fill(NaN, from, from + c.n);
+    dS.fill(NaN, from, from + c.n);
+    for (let k = 0; k < nv; k++) {
+      const src = c.values[vars[k]!];
+      if (src) val[k]!.set(src, from);
+      else val[k]!.fill(NaN, from, from + c.n);
+      const b = c.bad[vars[k]!];
+      if (b) bad[k]!.set(b, from);
+      else bad[k]!.fill(0, from, from + c.n);
+      flg[k]!.fill(0, from, from + c.n);
+      tst[k]!.fill(0, from, from + c.n);
+    }
+    const end = from + c.n;
+    const fillPair = (s: number, d: number, a: number, b: number, wind: boolean) => {
+      const S = val[s]!, D = val[d]!, A = val[a]!, B = val[b]!;
+      for (let i = from; i < end; i++) {
+        A[i] = wind ? windU(S[i]!, D[i]!) : currentU(S[i]!, D[i]!);
+        B[i] = wind ? windV(S[i]!, D[i]!) : currentV(S[i]!, D[i]!);
+        const bb = bad[s]![i]! | bad[d]![i]!;
+        bad[a]![i] = bb;
+        bad[b]![i] = bb;
+      }
+    };
+    if (fillWindUV) fillPair(iWs, iWd, vars.indexOf("eastward_wind"), vars.indexOf("northward_wind"), true);
+    if (fillCurUV)
+      fillPair(vars.indexOf("sea_water_speed"), vars.indexOf("sea_water_velocity_to_direction"), vars.indexOf("eastward_sea_water_velocity"), vars.indexOf("northward_sea_water_velocity"), false);
+    if (fillWindSD) {
+      const U = val[vars.indexOf("eastward_wind")]!, Vv = val[vars.indexOf("northward_wind")]!;
+      for (let i = from; i < end; i++) {
+        val[iWs]![i] = Math.sqrt(U[i]! * U[i]! + Vv[i]! * Vv[i]!);
+        val[iWd]![i] = fromBearing(U[i]!, Vv[i]!);
+      }
+    }
+    n = end;
+    return from;
+  }
+
+  /** Timing, syntax, location and drifter legs; marks which records feed the window tests. */
+  function recordTests(from: number) {
+    const lat = iLat >= 0 ? val[iLat]! : null;
+    const lon = iLon >= 0 ? val[iLon]! : null;
+    for (let i = from; i < n; i++) {
+      const t = time[i]!;
+      if (recordBadMask[i - from] || !Number.isFinite(t)) {
+        raise(recFlag, recTests, i, FLAG.FAIL, TEST.SYNTAX);
+        acc[i] = 0;
+        continue;
+      }
+      recFlag[i] = FLAG.PASS; // syntax ran and passed
+      const st = platformState(plat[i]!);
+      const last = st.lastTime;
+      if (last === last && t <= last) {
+        raise(recFlag, recTests, i, FLAG.FAIL, TEST.GAP);
+        acc[i] = 0;
+        continue;
+      }
+      if (last === last && t - last > maxGap) raise(recFlag, recTests, i, timing.gapFlag, TEST.GAP);
+      st.lastTime = t;
+      acc[i] = 1;
+      if (lat && lon) {
+        const la = lat[i]!;
+        const lo = lon[i]!;
+        if (la === la && lo === lo) {
+          if (Math.abs(la) > 90 || Math.abs(lo) > 180) {
+            raise(posFlag, posTests, i, FLAG.FAIL, TEST.LOCATION);
+          } else {
+            let pf: number = FLAG.PASS;
+            if (watchR !== null && nomLat === nomLat && haversine(nomLat, nomLon, la, lo) > watchR) pf = FLAG.SUSPECT;
+            raise(posFlag, posTests, i, pf, TEST.LOCATION);
+            if (drifter) driftLeg(st, i, la, lo, t);
+          }
+        }
+      }
+    }
+  }
+
+  /** A new fix closes the leg from the previous one: judge the previous fix and give it a velocity. */
+  function driftLeg(st: PlatformState, i: number, la: number, lo: number, t: number) {
+    if (st.fixTime === st.fixTime) {
+      const leg = haversine(st.fixLat, st.fixLon, la, lo) / (t - st.fixTime);
+      if (st.fixIdx >= 0) resolveFix(st, st.fixIdx, leg, la, lo, t);
+      st.prevLeg = leg;
+    }
+    st.prevLat = st.fixLat;
+    st.prevLon = st.fixLon;
+    st.prevTime = st.fixTime;
+    st.fixLat = la;
+    st.fixLon = lo;
+    st.fixTime = t;
+    st.fixIdx = i;
+  }
+
+  /** Implied-speed verdict and centred velocity for the fix at buffer index k; `next*` NaN at the series end. */
+  function resolveFix(st: PlatformState, k: number, nextLeg: number, nla: number, nlo: number, nt: number) {
+    const prevLeg = st.prevLeg;
+    const sq = settings.impliedSpeed;
+    let f: number = FLAG.PASS;
+    if (prevLeg === prevLeg && nextLeg === nextLeg) {
+      // The bad fix is the one whose legs are both fast.
+      const slow = Math.min(prevLeg, nextLeg);
+      f = slow > sq.fail ? FLAG.FAIL : slow > sq.suspect ? FLAG.SUSPECT : FLAG.PASS;
+    } else {
+      // One leg only (series end): a fast leg cannot say which end is wrong, so at most suspect.
+      const one = prevLeg === prevLeg ? prevLeg : nextLeg;
+      if (one !== one) f = 0;
+      else f = one > sq.suspect ? FLAG.SUSPECT : FLAG.PASS;
+    }
+    if (f) raise(posFlag, posTests, k, f, TEST.IMPLIED_SPEED);
+    const hasPrev = st.prevTime === st.prevTime;
+    const hasNext = nt === nt;
+    let r: [number, number, number] = [NaN, NaN, NaN];
+    if (hasPrev && hasNext) r = fixVelocity(st.prevLat, st.prevLon, nla, nlo, nt - st.prevTime);
+    else if (hasNext) r = fixVelocity(st.fixLat, st.fixLon, nla, nlo, nt - st.fixTime);
+    else if (hasPrev) r = fixVelocity(st.prevLat, st.prevLon, st.fixLat, st.fixLon, st.fixTime - st.prevTime);
+    dU[k] = r[0];
+    dV[k] = r[1];
+    dS[k] = r[2];
+  }
+
+  let recordBadMask: Uint8Array = new Uint8Array(0);
+  // Month bounds cache for climatology.
+  let monthStart = Infinity;
+  let monthEnd = -Infinity;
+  let month = 0;
+  const monthOf = (t: number) => {
+    if (t >= monthStart && t < monthEnd) return month;
+    const dt = new Date(t * 1000);
+    const y = dt.getUTCFullYear();
+    month = dt.getUTCMonth();
+    monthStart = daysFromCivil(y, month + 1, 1) * 86400;
+    monthEnd = month === 11 ? daysFromCivil(y + 1, 1, 1) * 86400 : daysFromCivil(y, month + 2, 1) * 86400;
+    return month;
+  };
+
+  function variableTests(from: number) {
+    for (let k = 0; k < nv; k++) {
+      const q = qcs[k];
+      const X = val[k]!;
+      const F = flg[k]!;
+      const T = tst[k]!;
+      const B = bad[k]!;
+      const sensor = q?.sensor ?? null;
+      const user = q?.user ?? null;
+      const sMin = sensor?.min ?? -Infinity, sMax = sensor?.max ?? Infinity;
+      const uMin = user?.min ?? -Infinity, uMax = user?.max ?? Infinity;
+      const clim = q?.climatology ?? null;
+      const spike = q?.spike ?? null;
+      const roc = q?.rateOfChange ?? null;
+      const flat = q?.flatLine ?? null;
+      for (let i = from; i < n; i++) {
+        const x = X[i]!;
+        const p = plat[i]!;
+        if (x !== x) {
+          if (B[i]) raise(F, T, i, FLAG.FAIL, TEST.SYNTAX);
+          // A gap in the values breaks the spike triple.
+          if (acc[i] && spike) {
+            const vs = platformState(p).vars[k]!;
+            vs.nPrev = 0;
+          }
+          continue;
+        }
+        if (sensor || user) {
+          raise(F, T, i, x < sMin || x > sMax ? FLAG.FAIL : x < uMin || x > uMax ? FLAG.SUSPECT : FLAG.PASS, TEST.GROSS_RANGE);
+        }
+        if (clim && time[i] === time[i]) {
+          const m = monthOf(time[i]!);
+          raise(F, T, i, x < clim.min[m]! || x > clim.max[m]! ? FLAG.SUSPECT : FLAG.PASS, TEST.CLIMATOLOGY);
+        }
+        if (!acc[i]) continue;
+        const vs = platformState(p).vars[k]!;
+        if (spike) {
+          if (vs.nPrev >= 2) {
+            const d = Math.abs(vs.p1 - (vs.p2 + x) / 2);
+            raise(F, T, vs.p1Idx, d >= spike.fail ? FLAG.FAIL : d >= spike.suspect ? FLAG.SUSPECT : FLAG.PASS, TEST.SPIKE);
+          }
+          vs.p2 = vs.p1;
+          vs.p1 = x;
+          vs.p1Idx = i;
+          if (vs.nPrev < 2) vs.nPrev++;
+        }
+        if (roc) {
+          const t = time[i]!;
+          if (vs.ref !== vs.ref) vs.ref = x;
+          // Drop values that left the trailing window.
+          const lim = t - roc.windowS;
+          let cap2 = vs.rocT.length;
+          while (vs.rocSize > 0 && vs.rocT[vs.rocHead]! <= lim) {
+            const y = vs.rocV[vs.rocHead]!;
+            vs.rocSum -= y;
+            vs.rocSq -= y * y;
+            vs.rocHead = vs.rocHead + 1 === cap2 ? 0 : vs.rocHead + 1;
+            vs.rocSize--;
+          }
+          if (vs.rocSize >= roc.minCount && vs.prev === vs.prev) {
+            const m = vs.rocSum / vs.rocSize;
+            const varc = vs.rocSq / vs.rocSize - m * m;
+            const sd = varc > 0 ? Math.sqrt(varc) : 0;
+            raise(F, T, i, Math.abs(x - vs.prev) > roc.n * sd ? FLAG.SUSPECT : FLAG.PASS, TEST.RATE_OF_CHANGE);
+          }
+          if (vs.rocSize === cap2) {
+            // Grow the ring, unrolling it so the oldest value comes first.
+            const nt = new Float64Array(cap2 * 2);
+            const nvv = new Float64Array(cap2 * 2);
+            for (let j = 0; j < cap2; j++) {
+              const s = (vs.rocHead + j) % cap2;
+              nt[j] = vs.rocT[s]!;
+              nvv[j] = vs.rocV[s]!;
+            }
+            vs.rocT = nt;
+            vs.rocV = nvv;
+            vs.rocHead = 0;
+            cap2 *= 2;
+          }
+          const y = x - vs.ref;
+          let tail = vs.rocHead + vs.rocSize;
+          if (tail >= cap2) tail -= cap2;
+          vs.rocT[tail] = t;
+          vs.rocV[tail] = y;
+          vs.rocSize++;
+          vs.rocSum += y;
+          vs.rocSq += y * y;
+          vs.prev = x;
+        }
+        if (flat) {
+          const K = vs.flat.length;
+          if (vs.flatSize >= flat.suspectCount) {
+            let c = 0;
+            let pos = vs.flatPos;
+            while (c < vs.flatSize) {
+              pos = pos === 0 ? K - 1 : pos - 1;
+              if (Math.abs(vs.flat[pos]! - x) > flat.epsilon) break;
+              c++;
+            }
+            raise(F, T, i, c >= flat.failCount ? FLAG.FAIL : c >= flat.suspectCount ? FLAG.SUSPECT : FLAG.PASS, TEST.FLAT_LINE);
+          }
+          vs.flat[vs.flatPos] = x;
+          vs.flatPos = vs.flatPos + 1 === K ? 0 : vs.flatPos + 1;
+          if (vs.flatSize < K) vs.flatSize++;
+        }
+      }
+    }
+  }
+
+  function multiVariate(from: number) {
+    if (iWs < 0) return;
+    const S = val[iWs]!;
+    if (iGust >= 0) {
+      const G = val[iGust]!;
+      for (let i = from; i < n; i++) {
+        const g = G[i]!;
+        const s = S[i]!;
+        if (g === g && s === s) raise(flg[iGust]!, tst[iGust]!, i, g < s ? FLAG.SUSPECT : FLAG.PASS, TEST.MULTI_VARIATE);
+      }
+    }
+    if (iWd >= 0) {
+      const D = val[iWd]!;
+      const F = flg[iWd]!;
+      const T = tst[iWd]!;
+      for (let i = from; i < n; i++) {
+        const s = S[i]!;
+        const d = D[i]!;
+        if (s !== s || d !== d) continue;
+        if (s < mv.calmSpeed) T[i]! |= CALM_BIT;
+        if (!acc[i]) continue;
+        const st = platformState(plat[i]!);
+        if (s < mv.lightSpeed && s >= mv.calmSpeed && st.lastDir === st.lastDir) {
+          raise(F, T, i, Math.abs(wrap180(d - st.lastDir)) > mv.maxDirectionStepDeg ? FLAG.SUSPECT : FLAG.PASS, TEST.MULTI_VARIATE);
+        }
+        st.lastDir = d;
+      }
+    }
+  }
+
+  /** Marks the latest accepted record of each platform as pending (its spike/drifter verdict needs the next). */
+  function updatePending(from: number) {
+    for (let i = from; i < n; i++) if (acc[i]) platformState(plat[i]!).pending = i;
+  }
+
+  function emit(upTo: number): EngineBlock {
+    const m = upTo;
+    const block: EngineBlock = {
+      start: emitted,
+      n: m,
+      time: time.slice(0, m),
+      platform: hasPlatform ? plat.slice(0, m) : null,
+      line: line.slice(0, m),
+      values: {},
+      flags: {},
+      tests: {},
+      derived: {},
+      derivedFlags: {},
+    };
+    for (let k = 0; k < nv; k++) {
+      const v = vars[k]!;
+      const X = val[k]!.slice(0, m);
+      const F = new Uint8Array(m);
+      const T = new Uint32Array(m);
+      const W = flg[k]!;
+      const TT = tst[k]!;
+      const isPos = k === iLat || k === iLon;
+      const isDir = k === iWd;
+      const B = bad[k]!;
+      for (let i = 0; i < m; i++) {
+        let w = W[i]!;
+        let word = TT[i]! | recTests[i]!;
+        if (recFlag[i]! > w) w = recFlag[i]!;
+        if (isPos) {
+          if (posFlag[i]! > w) w = posFlag[i]!;
+          word |= posTests[i]!;
+        }
+        let a: number = aggregateFlag(w, X[i]! !== X[i]! && !B[i] && !(recFlag[i] === FLAG.FAIL && (recTests[i]! & FAIL_BIT(TEST.SYNTAX))));
+        if (isDir && word & CALM_BIT && a === FLAG.PASS) a = FLAG.NOT_EVALUATED;
+        F[i] = a;
+        T[i] = word;
+      }
+      block.values[v] = X;
+      block.flags[v] = F;
+      block.tests[v] = T;
+    }
+    let drift: { u: Float64Array; v: Float64Array; speed: Float64Array; flag: Uint8Array } | undefined;
+    if (drifter) {
+      const fl = new Uint8Array(m);
+      const lf = block.flags.latitude!;
+      const of = block.flags.longitude!;
+      const du = dU.slice(0, m);
+      for (let i = 0; i < m; i++) fl[i] = du[i] === du[i] ? worseDerivedFlag(lf[i]!, of[i]!) : FLAG.MISSING;
+      drift = { u: du, v: dV.slice(0, m), speed: dS.slice(0, m), flag: fl };
+      block.derived.surface_eastward_sea_water_velocity = drift.u;
+      block.derived.surface_northward_sea_water_velocity = drift.v;
+      block.derived.platform_speed_wrt_ground = drift.speed;
+      block.derivedFlags.surface_eastward_sea_water_velocity = fl;
+      block.derivedFlags.surface_northward_sea_water_velocity = fl;
+      block.derivedFlags.platform_speed_wrt_ground = fl;
+    }
+    const diag = computeDiagnostics({ n: m, values: block.values, flags: block.flags, drift }, settings, ctx);
+    Object.assign(block.derived, diag.values);
+    Object.assign(block.derivedFlags, diag.flags);
+    tally(block);
+    // Shift the held-back tail to the front.
+    const rest = n - m;
+    if (rest > 0) {
+      for (const a of [time, line, acc, recFlag, recTests, posFlag, posTests, dU, dV, dS, plat] as (Float64Array | Uint8Array | Uint32Array | Int32Array)[]) a.copyWithin(0, m, n);
+      for (let k = 0; k < nv; k++) {
+        val[k]!.copyWithin(0, m, n);
+        flg[k]!.copyWithin(0, m, n);
+        tst[k]!.copyWithin(0, m, n);
+        bad[k]!.copyWithin(0, m, n);
+      }
+    }
+    for (const st of platforms) {
+      if (!st) continue;
+      st.pending = st.pending >= m ? st.pending - m : -1;
+      st.fixIdx = st.fixIdx >= m ? st.fixIdx - m : -1;
+      for (const vs of st.vars) if (vs) vs.p1Idx -= m;
+    }
+    n = rest;
+    emitted += m;
+    return block;
+  }
+
+  function tally(b: EngineBlock) {
+    summary.rows += b.n;
+    for (let i = 0; i < b.n; i++) {
+      const t = b.time[i]!;
+      if (t < summary.timeMin) summary.timeMin = t;
+      if (t > summary.timeMax) summary.timeMax = t;
+    }
+    const count = (name: string, F: Uint8Array) => {
+      const c = (summary.flagCounts[name as MeasuredVariable] ??= new Array(10).fill(0));
+      for (let i = 0; i < F.length; i++) c[F[i]!]++;
+    };
+    for (const v of vars) {
+      count(v, b.flags[v]!);
+      const T = b.tests[v]!;
+      const tc = (summary.testCounts[v] ??= {});
+      let any = 0;
+      for (let i = 0; i < T.length; i++) any |= T[i]!;
+      if (!(any & 0x7fffffff)) continue;
+      for (const [name, t] of Object.entries(TEST)) {
+        if (!(any & (SUSPECT_BIT(t) | FAIL_BIT(t)))) continue;
+        const e = (tc[name] ??= [0, 0]);
+        for (let i = 0; i < T.length; i++) {
+          if (T[i]! & FAIL_BIT(t)) e[1]++;
+          else if (T[i]! & SUSPECT_BIT(t)) e[0]++;
+        }
+      }
+    }
+    for (const [k, F] of Object.entries(b.derivedFlags)) count(k, F!);
+    summary.platforms = platforms.filter(Boolean).length;
+  }
+
+  function boundary(): number {
+    if (!needsLookahead) return n;
+    let b = n;
+    for (const st of platforms) {
+      if (!st) continue;
+      if (st.pending >= 0 && st.pending < b) b = st.pending;
+      if (st.fixIdx >= 0 && st.fixIdx < b) b = st.fixIdx;
+    }
+    return b;
+  }
+
+  return {
+    provenance,
+    variables: vars,
+    push(chunk) {
+      const from = append(chunk);
+      recordBadMask = chunk.recordBad;
+      recordTests(from);
+      variableTests(from);
+      multiVariate(from);
+      updatePending(from);
+      return emit(boundary());
+    },
+    finish() {
+      // Close every open series: last fixes get their one-leg verdict; spikes at the end stay not evaluated.
+      for (const st of platforms) {
+        if (!st) continue;
+        if (drifter && st.fixIdx >= 0) resolveFix(st, st.fixIdx, NaN, NaN, NaN, NaN);
+        st.fixIdx = -1;
+        st.pending = -1;
+      }
+      return emit(n);
+    },
+    summary: () => summary,
+  };
+}
+
+/** Convenience for small inputs and tests: runs one chunk through a fresh engine and joins the blocks. O(n). */
+export function runEngine(settings: QcSettings, ctx: DeploymentContext, chunks: RecordChunk[], variables: readonly MeasuredVariable[]): { blocks: EngineBlock[]; summary: RunSummary; provenance: Provenance } {
+  const e = createEngine(settings, ctx, variables);
+  const blocks = chunks.map((c) => e.push(c));
+  blocks.push(e.finish());
+  return { blocks: blocks.filter((b) => b.n > 0), summary: e.summary(), provenance: e.provenance };
+}
+
