@@ -24,6 +24,8 @@ export interface Engine {
   readonly provenance: Provenance;
   /** Measured variables the engine evaluates (those in the map, plus wind components it fills in). */
   readonly variables: MeasuredVariable[];
+  /** Derived variables every block will carry, in output order. */
+  readonly derivedVariables: DerivedVariable[];
 }
 
 /** Final results for a run of records. Arrays are fresh copies owned by the caller. */
@@ -632,9 +634,26 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
     return b;
   }
 
+  // Which derived outputs these inputs give: run the diagnostics on zero records.
+  const probe = computeDiagnostics(
+    {
+      n: 0,
+      values: Object.fromEntries(vars.map((v) => [v, new Float64Array(0)])),
+      flags: Object.fromEntries(vars.map((v) => [v, new Uint8Array(0)])),
+      drift: drifter ? { u: new Float64Array(0), v: new Float64Array(0), speed: new Float64Array(0), flag: new Uint8Array(0) } : undefined,
+    },
+    settings,
+    ctx,
+  );
+  const derivedVariables = [
+    ...((drifter ? ["surface_eastward_sea_water_velocity", "surface_northward_sea_water_velocity", "platform_speed_wrt_ground"] : []) as DerivedVariable[]),
+    ...(Object.keys(probe.values) as DerivedVariable[]),
+  ];
+
   return {
     provenance,
     variables: vars,
+    derivedVariables,
     push(chunk) {
       const from = append(chunk);
       recordBadMask = chunk.recordBad;

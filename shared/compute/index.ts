@@ -7,3 +7,4 @@ export * from "./canonical";
 export * from "./diagnostics";
 export * from "./engine";
 export * from "./array";
+export * from "./timing";

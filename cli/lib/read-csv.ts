@@ -1,0 +1,104 @@
+import { createReadStream } from "node:fs";
+import Papa from "papaparse";
+import type { ColumnMap } from "../../shared/schemas/column-map";
+import { createCanonicalizer, type Canonicalizer, type ParseWarning, type RecordChunk } from "../../shared/compute/canonical";
+
+/** A readable problem with an input file, reported as one line. */
+export class InputError extends Error {}
+
+export interface CanonicalStream {
+  canonicalizer: Canonicalizer;
+  chunks: AsyncGenerator<{ chunk: RecordChunk; warnings: ParseWarning[] }>;
+}
+
+/**
+ * Streams a delimited file through a column map into canonical chunks (I/O side of the ingest; the conversion
+ * itself is the pure `createCanonicalizer`). Assumes one record per line (no line breaks inside quoted fields).
+ * Throws InputError for an unreadable file or a header that does not match the map.
+ */
+export async function openCanonicalStream(path: string, map: ColumnMap, chunkBytes = 4 << 20): Promise<CanonicalStream> {
+  const canonicalizer = createCanonicalizer(map);
+  const stream = createReadStream(path, { encoding: "utf8", highWaterMark: chunkBytes });
+  const it = stream[Symbol.asyncIterator]() as AsyncIterator<string>;
+  let carry = "";
+  let line = 1;
+  let done = false;
+  const parse = (text: string) => Papa.parse<string[]>(text, { delimiter: map.delimiter }).data;
+
+  /** Next piece of text holding whole lines, or null at the end. */
+  const nextPiece = async (): Promise<string | null> => {
+    while (!done) {
+      let r: IteratorResult<string>;
+      try {
+        r = await it.next();
+      } catch (e) {
+        throw new InputError(`cannot read ${path}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}`);
+      }
+      if (r.done) {
+        done = true;
+        break;
+      }
+      carry += r.value;
+      const cut = carry.lastIndexOf("\n");
+      if (cut >= 0) {
+        const piece = carry.slice(0, cut + 1);
+        carry = carry.slice(cut + 1);
+        return piece;
+      }
+    }
+    if (carry.length > 0) {
+      const piece = carry;
+      carry = "";
+      return piece;
+    }
+    return null;
+  };
+
+  // Header and skipped lines.
+  let pending: string[][] = [];
+  const takeLines = async (count: number): Promise<string[][]> => {
+    while (pending.length < count) {
+      const piece = await nextPiece();
+      if (piece === null) break;
+      const rows = parse(piece);
+      if (piece.endsWith("\n") && rows.length && rows[rows.length - 1]!.length === 1 && rows[rows.length - 1]![0] === "") rows.pop();
+      pending = pending.concat(rows);
+    }
+    const out = pending.slice(0, count);
+    pending = pending.slice(count);
+    return out;
+  };
+
+  let header: string[] | null = null;
+  if (map.headerRow > 0) {
+    const head = await takeLines(map.headerRow + map.skipRows);
+    if (head.length < map.headerRow) throw new InputError(`${path}: the file ends before its header row (line ${map.headerRow})`);
+    header = head[map.headerRow - 1]!;
+    line = map.headerRow + map.skipRows + 1;
+  } else if (map.skipRows > 0) {
+    await takeLines(map.skipRows);
+    line = map.skipRows + 1;
+  }
+  const bound = canonicalizer.bindHeader(header, map.headerRow);
+  if (!bound.ok) throw new InputError(`${path}: ${bound.error}`);
+
+  async function* chunks() {
+    if (pending.length) {
+      const rows = pending;
+      pending = [];
+      const r = canonicalizer.convert(rows, line);
+      line += rows.length;
+      yield r;
+    }
+    for (;;) {
+      const piece = await nextPiece();
+      if (piece === null) return;
+      const rows = parse(piece);
+      if (piece.endsWith("\n") && rows.length && rows[rows.length - 1]!.length === 1 && rows[rows.length - 1]![0] === "") rows.pop();
+      const r = canonicalizer.convert(rows, line);
+      line += rows.length;
+      yield r;
+    }
+  }
+  return { canonicalizer, chunks: chunks() };
+}
