@@ -1,5 +1,5 @@
 import "@fontsource-variable/source-sans-3";
-import "@fontsource-variable/jetbrains-mono";
+import "./styles/fonts.css";
 import "./index.css";
 import { StrictMode } from "react";
 import { createRoot } from "react-dom/client";

@@ -30,19 +30,23 @@ export function formatLon(v: number | null | undefined): string {
   return `${Math.abs(v).toFixed(3)}° ${v >= 0 ? "E" : "W"}`;
 }
 
-/** "2026-03-05T12:00:00Z" → "2026-03-05T12:00" for a datetime-local input read as UTC. */
+/** "2026-03-05T12:00:00Z" → "2026-03-05 12:00" (seconds kept when not zero) for a time input read as UTC. */
 export function isoToUtcInput(iso: string | null | undefined): string {
   if (!iso) return "";
   const d = new Date(iso);
   if (Number.isNaN(d.getTime())) return "";
-  return d.toISOString().slice(0, 16);
+  const s = d.toISOString();
+  return `${s.slice(0, 10)} ${s.slice(11, s.slice(17, 19) === "00" ? 16 : 19)}`;
 }
 
-/** The reverse: a UTC wall-clock value from a datetime-local input → ISO 8601 with Z. */
+/**
+ * The reverse: a typed UTC time → ISO 8601 with Z. Accepts "YYYY-MM-DD hh:mm[:ss]", a "T" instead of the
+ * space, and a trailing "Z" or "UTC". Anything else is passed on unchanged so the schema can explain the format.
+ */
 export function utcInputToIso(v: string): string {
   const t = v.trim();
   if (!t) return "";
-  if (/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/.test(t)) return `${t}:00Z`;
-  if (/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(\.\d+)?$/.test(t)) return `${t}Z`;
+  const m = /^(\d{4}-\d{2}-\d{2})[T ](\d{2}:\d{2})(:\d{2}(?:\.\d+)?)?\s*(Z|UTC)?$/i.exec(t);
+  if (m) return `${m[1]}T${m[2]}${m[3] ?? ":00"}Z`;
   return t;
 }

@@ -53,11 +53,11 @@ export function FieldError({ id, children }: { id?: string; children: ReactNode 
   );
 }
 
-export function TextField({ label, hint, error, className, ...input }: FieldFrameProps & ComponentProps<"input">) {
+export function TextField({ label, hint, error, className, inputClassName, ...input }: FieldFrameProps & ComponentProps<"input"> & { inputClassName?: string }) {
   const ids = useFieldIds(error, hint);
   return (
     <Frame {...ids} label={label} hint={hint} error={error} className={className}>
-      <input id={ids.id} aria-invalid={error ? true : undefined} aria-describedby={ids.describedBy} className={control} {...input} />
+      <input id={ids.id} aria-invalid={error ? true : undefined} aria-describedby={ids.describedBy} className={clsx(control, inputClassName)} {...input} />
     </Frame>
   );
 }

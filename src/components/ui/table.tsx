@@ -5,7 +5,7 @@ import type { ComponentProps, ReactNode } from "react";
 export function Table({ caption, children, className }: { caption: ReactNode; children: ReactNode; className?: string }) {
   return (
     <div className={clsx("overflow-x-auto rounded-lg border border-line bg-surface", className)}>
-      <table className="w-full border-collapse text-[0.95rem]">
+      <table className="w-full min-w-[40rem] border-collapse text-[0.95rem]">
         <caption className="sr-only">{caption}</caption>
         {children}
       </table>

@@ -8,7 +8,7 @@ import { UtcTime } from "@/components/ui/utc-time";
 export function MailList({ items, selectedId }: { items: MailMessage[]; selectedId?: string }) {
   const sorted = [...items].sort((a, b) => b.receivedAt.localeCompare(a.receivedAt));
   return (
-    <ul aria-label="Messages" className="divide-y divide-line overflow-hidden rounded-lg border border-line bg-surface">
+    <ul aria-label="Messages" className="self-start divide-y divide-line overflow-hidden rounded-lg border border-line bg-surface">
       {sorted.map((m) => (
         <li key={m.id}>
           <Link

@@ -27,7 +27,7 @@ export function UsersTable({ items, meId }: { items: AdminUser[]; meId: string }
               {u.name}
               {u.id === meId ? <span className="ml-1 text-sm font-normal text-muted">(you)</span> : null}
             </Td>
-            <Td className="break-all">{u.email}</Td>
+            <Td className="whitespace-nowrap">{u.email}</Td>
             <Td>
               {u.emailVerified ? (
                 <span className="text-ok">✓ verified</span>

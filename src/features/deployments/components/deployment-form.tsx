@@ -15,7 +15,7 @@ import { TextareaField, TextField } from "@/components/ui/field";
 import { useCreateDeployment } from "../api/create-deployment";
 import { useUpdateDeployment } from "../api/update-deployment";
 
-/** What the inputs hold: text as typed. Times are UTC wall-clock values from datetime-local inputs. */
+/** What the inputs hold: text as typed. Times are typed as UTC wall-clock values, "YYYY-MM-DD hh:mm". */
 type DeploymentFormValues = {
   name: string;
   startTime: string;
@@ -43,10 +43,11 @@ const fields = ["name", "startTime", "endTime", ...numericFields, "notes"] as co
 
 /** Typed text → the API's input: numbers parsed (a comma is accepted as decimal mark), times to ISO 8601 with Z. */
 function toInput(v: DeploymentFormValues): Record<string, unknown> {
-  const out: Record<string, unknown> = { name: v.name, startTime: utcInputToIso(v.startTime), endTime: utcInputToIso(v.endTime), notes: v.notes };
+  const end = utcInputToIso(v.endTime);
+  const out: Record<string, unknown> = { name: v.name, startTime: utcInputToIso(v.startTime), endTime: end === "" ? undefined : end, notes: v.notes };
   for (const k of numericFields) {
     const t = v[k].trim().replace(",", ".").replace("−", "-");
-    out[k] = t === "" ? "" : Number(t);
+    out[k] = t === "" ? undefined : Number(t);
   }
   return out;
 }
@@ -71,7 +72,12 @@ function fromDeployment(d?: Deployment): DeploymentFormValues {
 /** Validate with the same zod schema the server uses, so both give the same messages. */
 function makeResolver(schema: typeof createDeploymentInputSchema | typeof updateDeploymentInputSchema): Resolver<DeploymentFormValues, unknown, CreateDeploymentInput> {
   const inner = zodResolver(schema as typeof createDeploymentInputSchema) as unknown as Resolver<Record<string, unknown>, unknown, CreateDeploymentInput>;
-  return (values, ctx, opts) => inner(toInput(values), ctx, opts as never) as never;
+  return async (values, ctx, opts) => {
+    const result = await inner(toInput(values), ctx, opts as never);
+    // An empty start gets a plain request rather than the ISO 8601 format message.
+    if (!values.startTime.trim() && result.errors.startTime) result.errors.startTime.message = "Enter the start time (UTC)";
+    return result as never;
+  };
 }
 
 export function DeploymentForm({
@@ -105,7 +111,8 @@ export function DeploymentForm({
     }
   });
 
-  const num = { inputMode: "decimal" as const, autoComplete: "off", spellCheck: false, className: "num" };
+  const num = { inputMode: "decimal" as const, autoComplete: "off", spellCheck: false, inputClassName: "num" };
+  const time = { placeholder: "2026-03-05 12:00", autoComplete: "off", spellCheck: false, inputClassName: "num" };
 
   return (
     <form onSubmit={onSubmit} noValidate aria-label={deployment ? `Edit deployment ${deployment.name}` : "New deployment"} className="space-y-5">
@@ -115,15 +122,15 @@ export function DeploymentForm({
         <TextField label="Deployment name" hint="e.g. the cruise or the season: “Spring 2026”." error={e.name?.message} {...register("name")} />
         <TextField
           label="Start (UTC)"
-          type="datetime-local"
-          hint="Time of anchoring or launch, in UTC."
+          hint="Anchoring or launch, as YYYY-MM-DD hh:mm in UTC."
+          {...time}
           error={e.startTime?.message}
           {...register("startTime")}
         />
         <TextField
           label="End (UTC)"
-          type="datetime-local"
-          hint="Leave empty while the platform is still at sea."
+          hint="Recovery or loss, UTC. Leave empty while still at sea."
+          {...time}
           error={e.endTime?.message}
           {...register("endTime")}
         />

@@ -70,7 +70,7 @@ export function MembersTable({ projectId, items, canManage }: { projectId: strin
         {items.map((m) => (
           <Tr key={m.userId}>
             <Td className="font-semibold">{m.name}</Td>
-            <Td className="break-all">{m.email}</Td>
+            <Td className="whitespace-nowrap">{m.email}</Td>
             <Td>
               <RoleBadge role={m.role} />
             </Td>
