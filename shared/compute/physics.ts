@@ -203,3 +203,8 @@ export function ekmanPumping(curl: number, taux: number, latDeg: number, rho: nu
 export function sverdrupTransport(curl: number, latDeg: number, rho: number = RHO_SEAWATER_FIXED): number {
   return curl / (rho * beta(latDeg));
 }
+
+/** Years for Ekman pumping at `wE` (m s-1) to move water through `depthM` metres. Infinity when wE = 0. */
+export function pumpingTimeYears(depthM: number, wE: number): number {
+  return depthM / (Math.abs(wE) * SECONDS_PER_YEAR);
+}
