@@ -5,6 +5,18 @@ import { defineConfig } from "vitest/config";
 
 const r = (p: string) => fileURLToPath(new URL(p, import.meta.url));
 
+/** The API tests' own database, mail port and origin (scripts/test.sh starts the cluster; global setup does too). */
+const testPgPort = process.env.TEST_PG_PORT ?? "55433";
+const testEnv = {
+  NODE_ENV: "test",
+  DATABASE_URL: `postgres://postgres@127.0.0.1:${testPgPort}/tauline_api`,
+  SMTP_PORT: process.env.TEST_SMTP_PORT ?? "2626",
+  PUBLIC_URL: "http://127.0.0.1:3999",
+  AUTH_RATE_LIMIT: "1000",
+  STORAGE_DIR: "storage-test",
+  LOG_LEVEL: "silent",
+};
+
 export default defineConfig({
   plugins: [react(), tailwindcss()],
   resolve: {
@@ -28,6 +40,7 @@ export default defineConfig({
           testTimeout: 60_000,
           hookTimeout: 60_000,
           globalSetup: ["tests/helpers/global-setup.ts"],
+          env: testEnv,
         },
       },
     ],

@@ -10,6 +10,7 @@ import { db } from "./db/client";
 import { env } from "./env";
 import { logger } from "./lib/logger";
 import { errorHandler, notFoundHandler } from "./middleware/error-handler";
+import { checkOrigin } from "./middleware/check-origin";
 import { authRateLimit, SENSITIVE_AUTH_PATHS } from "./middleware/rate-limit";
 import { requestId } from "./middleware/request-id";
 import { adminApi, meApi } from "./routes/admin";
@@ -69,6 +70,7 @@ export function createApp(options: AppOptions = {}): Express {
     }),
   );
 
+  app.use("/api", checkOrigin([env.PUBLIC_URL]));
   // better-auth and (later) tus read the raw request stream, so they come before the JSON body parser.
   app.use(SENSITIVE_AUTH_PATHS, authRateLimit(options.authRateLimit ?? env.AUTH_RATE_LIMIT, env.AUTH_RATE_WINDOW_S));
   app.all("/api/auth/{*any}", toNodeHandler(auth));

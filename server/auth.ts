@@ -1,10 +1,14 @@
 import { betterAuth } from "better-auth";
 import { drizzleAdapter } from "better-auth/adapters/drizzle";
+import { APIError, createAuthMiddleware } from "better-auth/api";
 import { admin } from "better-auth/plugins";
 import { db } from "./db/client";
 import * as schema from "./db/schema";
 import { env } from "./env";
+import { isCommonPassword } from "./lib/password-policy";
 import { sendMail } from "./mail/send";
+
+const PASSWORD_PATHS = new Set(["/sign-up/email", "/reset-password", "/change-password"]);
 
 export const auth = betterAuth({
   appName: "Tauline",
@@ -51,6 +55,19 @@ export const auth = betterAuth({
   // Sign-in endpoints are rate-limited by the app (server/middleware/rate-limit.ts) so one rule covers them all.
   rateLimit: { enabled: false },
   advanced: { useSecureCookies: env.PUBLIC_URL.startsWith("https://") },
+  hooks: {
+    before: createAuthMiddleware(async (ctx) => {
+      if (!PASSWORD_PATHS.has(ctx.path)) return;
+      const body = (ctx.body ?? {}) as { password?: unknown; newPassword?: unknown };
+      const pw = typeof body.newPassword === "string" ? body.newPassword : body.password;
+      if (typeof pw === "string" && isCommonPassword(pw)) {
+        throw new APIError("BAD_REQUEST", {
+          code: "PASSWORD_TOO_COMMON",
+          message: "This password is on a list of commonly used passwords; choose another",
+        });
+      }
+    }),
+  },
   plugins: [admin({ defaultRole: "user", adminRoles: ["admin"] })],
 });
 

@@ -1,0 +1,45 @@
+import { defineConfig } from "@playwright/test";
+
+const port = Number(process.env.E2E_PORT ?? 3998);
+const baseURL = `http://127.0.0.1:${port}`;
+
+/** Browser tests: Debian's Chromium (never a downloaded browser) against the full stack on its own database. */
+export default defineConfig({
+  testDir: "tests/e2e",
+  testMatch: "**/*.e2e.ts",
+  outputDir: "tests/artifacts/playwright",
+  timeout: 90_000,
+  workers: 1,
+  retries: 0,
+  use: {
+    baseURL,
+    screenshot: "only-on-failure",
+    trace: "off",
+    launchOptions: {
+      executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+      args: ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
+    },
+  },
+  webServer: {
+    command: "node --import tsx scripts/stack.ts",
+    url: `${baseURL}/api/health`,
+    timeout: 120_000,
+    reuseExistingServer: false,
+    stdout: "ignore",
+    stderr: "pipe",
+    env: {
+      PG_DIR: process.env.TEST_PG_DIR ?? ".pg-test",
+      PG_PORT: process.env.TEST_PG_PORT ?? "55433",
+      PG_DB: "tauline_e2e",
+      FRESH_DB: "1",
+      KEEP_PG: "1",
+      PORT: String(port),
+      SMTP_PORT: process.env.E2E_SMTP_PORT ?? "2727",
+      PUBLIC_URL: baseURL,
+      DEMO: "1",
+      NODE_ENV: "test",
+      LOG_LEVEL: "warn",
+      STORAGE_DIR: "storage-e2e",
+    },
+  },
+});

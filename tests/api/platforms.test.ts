@@ -1,0 +1,141 @@
+import { eq, sql } from "drizzle-orm";
+import { beforeAll, describe, expect, test } from "vitest";
+import { db } from "../../server/db/client";
+import { auditLog } from "../../server/db/schema";
+import { as, makeProjectWithRoles } from "../helpers/api";
+
+let ctx: Awaited<ReturnType<typeof makeProjectWithRoles>>;
+beforeAll(async () => {
+  ctx = await makeProjectWithRoles();
+});
+
+describe("POST /api/projects/:id/platforms", () => {
+  test("creates a mooring and records who did it in the audit log", async () => {
+    const res = await as(ctx.users.contributor.cookie).post(`/api/projects/${ctx.projectId}/platforms`).send({ name: "Outer buoy", kind: "mooring", wmoNumber: "4612345" });
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({ name: "Outer buoy", kind: "mooring", wmoNumber: "4612345", projectId: ctx.projectId });
+    const rows = await db.select().from(auditLog).where(eq(auditLog.entityId, res.body.id));
+    expect(rows).toHaveLength(1);
+    expect(rows[0]).toMatchObject({ action: "platform.create", actorId: ctx.users.contributor.id });
+  });
+
+  test("answers 400 naming each bad field", async () => {
+    const res = await as(ctx.users.contributor.cookie).post(`/api/projects/${ctx.projectId}/platforms`).send({ name: "", kind: "boat", wmoNumber: "12" });
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe("validation_failed");
+    expect(Object.keys(res.body.error.details).sort()).toEqual(["kind", "name", "wmoNumber"]);
+    expect(res.body.error.details.wmoNumber).toEqual(["WMO number has 5 or 7 digits"]);
+  });
+
+  test("answers 409 for a second platform with the same name in the project", async () => {
+    const c = as(ctx.users.contributor.cookie);
+    expect((await c.post(`/api/projects/${ctx.projectId}/platforms`).send({ name: "Twin", kind: "drifter" })).status).toBe(201);
+    const again = await c.post(`/api/projects/${ctx.projectId}/platforms`).send({ name: "Twin", kind: "drifter" });
+    expect(again.status).toBe(409);
+    expect(again.body.error.details.name).toBeDefined();
+  });
+
+  test("answers 400 for an id that is not a uuid, without touching the database", async () => {
+    const res = await as(ctx.users.contributor.cookie).get(`/api/projects/not-an-id/platforms`);
+    expect(res.status).toBe(400);
+    expect(res.body.error.details.id).toEqual(["Must be a valid id"]);
+  });
+});
+
+describe("POST /api/platforms/:id/deployments", () => {
+  let platformId: string;
+  beforeAll(async () => {
+    const p = await as(ctx.users.contributor.cookie).post(`/api/projects/${ctx.projectId}/platforms`).send({ name: "Shelf mooring", kind: "mooring" });
+    platformId = p.body.id;
+  });
+
+  test("stores position, depths, heights and coastline bearing", async () => {
+    const body = {
+      name: "SM-1",
+      startTime: "2026-03-01T00:00:00Z",
+      endTime: "2026-06-01T00:00:00Z",
+      latitude: 41.5,
+      longitude: -124.9,
+      waterDepthM: 200,
+      watchCircleRadiusM: 500,
+      anemometerHeightM: 4,
+      currentMeterDepthM: 10,
+      coastlineOffshoreBearingDeg: 270,
+    };
+    const res = await as(ctx.users.curator.cookie).post(`/api/platforms/${platformId}/deployments`).send(body);
+    expect(res.status).toBe(201);
+    expect(res.body).toMatchObject({ ...body, startTime: "2026-03-01T00:00:00.000Z", endTime: "2026-06-01T00:00:00.000Z", projectId: ctx.projectId });
+  });
+
+  test("refuses out-of-range latitude, non-positive heights, a lone longitude and an end before the start", async () => {
+    const res = await as(ctx.users.contributor.cookie).post(`/api/platforms/${platformId}/deployments`).send({
+      name: "SM-bad",
+      startTime: "2026-03-01T00:00:00Z",
+      endTime: "2026-02-01T00:00:00Z",
+      latitude: 91,
+      anemometerHeightM: 0,
+      coastlineOffshoreBearingDeg: 360,
+    });
+    expect(res.status).toBe(400);
+    const d = res.body.error.details;
+    expect(d.latitude).toContain("Latitude must be between −90 and 90");
+    expect(d.anemometerHeightM).toEqual(["Anemometer height must be greater than 0"]);
+    expect(d.coastlineOffshoreBearingDeg).toEqual(["Bearing must be in [0, 360)"]);
+    // The cross-field checks run once the fields themselves are valid.
+    const res2 = await as(ctx.users.contributor.cookie).post(`/api/platforms/${platformId}/deployments`).send({
+      name: "SM-bad2",
+      startTime: "2026-03-01T00:00:00Z",
+      endTime: "2026-02-01T00:00:00Z",
+      longitude: 10,
+    });
+    expect(res2.status).toBe(400);
+    expect(res2.body.error.details.endTime).toEqual(["End must be after start"]);
+    expect(res2.body.error.details.latitude).toEqual(["Give both latitude and longitude, or neither"]);
+  });
+
+  test("refuses a time without a zone", async () => {
+    const res = await as(ctx.users.contributor.cookie).post(`/api/platforms/${platformId}/deployments`).send({ name: "SM-z", startTime: "2026-03-01T00:00:00" });
+    expect(res.status).toBe(400);
+    expect(res.body.error.details.startTime[0]).toMatch(/ISO 8601 time with a zone/);
+  });
+});
+
+describe("constraints live in the database too", () => {
+  test("raw SQL cannot store a latitude of 95, a zero anemometer height or an end before the start", async () => {
+    const p = await as(ctx.users.contributor.cookie).post(`/api/projects/${ctx.projectId}/platforms`).send({ name: "Raw SQL buoy", kind: "mooring" });
+    const insert = (cols: string) =>
+      db.execute(sql.raw(`insert into deployments (platform_id, name, start_time, ${cols.split("=")[0]}) values ('${p.body.id}', 'raw-${Math.random()}', '2026-01-01Z', ${cols.split("=")[1]})`));
+    await expect(insert("latitude=95")).rejects.toThrow();
+    await expect(insert("anemometer_height_m=0")).rejects.toThrow();
+    await expect(insert("end_time='2025-01-01Z'")).rejects.toThrow();
+    await expect(insert("water_depth_m=150")).resolves.toBeDefined();
+  });
+
+  test("the audit log refuses UPDATE and DELETE", async () => {
+    const pgMessage = (q: Promise<unknown>) => q.then(() => "accepted", (e: { cause?: { message?: string } }) => e.cause?.message ?? "");
+    expect(await pgMessage(db.execute(sql`update audit_log set reason = 'changed' where true`))).toMatch(/append-only \(UPDATE refused\)/);
+    expect(await pgMessage(db.execute(sql`delete from audit_log where true`))).toMatch(/append-only \(DELETE refused\)/);
+  });
+});
+
+describe("POST /api/projects/:id/datasets", () => {
+  test("refuses a deployment that belongs to another project (forged id) with 422", async () => {
+    const other = await as(ctx.users.outsider.cookie).post(`/api/projects/${ctx.otherProject}/platforms`).send({ name: "Foreign", kind: "mooring" });
+    const dep = await as(ctx.users.outsider.cookie).post(`/api/platforms/${other.body.id}/deployments`).send({ name: "F-1", startTime: "2026-01-01T00:00:00Z" });
+    expect(dep.status).toBe(201);
+    const res = await as(ctx.users.contributor.cookie).post(`/api/projects/${ctx.projectId}/datasets`).send({ title: "Borrowed", deploymentId: dep.body.id });
+    expect(res.status).toBe(422);
+    expect(res.body.error.details.deploymentId).toBeDefined();
+  });
+
+  test("an unreleased dataset is hidden from visitors (401) and other projects (403), and absent from the catalogue", async () => {
+    const created = await as(ctx.users.contributor.cookie).post(`/api/projects/${ctx.projectId}/datasets`).send({ title: "Hidden draft" });
+    expect(created.status).toBe(201);
+    expect(created.body).toMatchObject({ licence: "CC-BY-4.0", versions: [], latestRelease: null });
+    expect((await as(null).get(`/api/datasets/${created.body.id}`)).status).toBe(401);
+    expect((await as(ctx.users.outsider.cookie).get(`/api/datasets/${created.body.id}`)).status).toBe(403);
+    const cat = await as(null).get(`/api/catalogue?q=Hidden`);
+    expect(cat.status).toBe(200);
+    expect(cat.body.items.map((d: { id: string }) => d.id)).not.toContain(created.body.id);
+  });
+});

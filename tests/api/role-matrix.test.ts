@@ -1,0 +1,116 @@
+import { randomUUID } from "node:crypto";
+import { beforeAll, describe, expect, test } from "vitest";
+import { routeRules } from "../../server/lib/routes";
+import { addMembership, as, createTestUser, makeProjectWithRoles, testApp, type Role, type TestUser } from "../helpers/api";
+
+/**
+ * Every API route × every role, expected statuses in one table. A route the API declares without an
+ * entry here fails the suite (deny by default: SECURITY.md "Who may do what").
+ */
+type Ids = { projectId: string; platformId: string; deploymentId: string; datasetId: string; users: Record<Exclude<Role, "visitor">, TestUser> };
+interface Case {
+  /** Returns the concrete URL and body for one call (fresh objects where a call would collide). */
+  call: (ids: Ids) => Promise<{ url: string; body?: unknown }> | { url: string; body?: unknown };
+  expect: Record<Role, number>;
+}
+const u = () => randomUUID().slice(0, 6);
+const readMembers = { visitor: 401, outsider: 403, contributor: 200, curator: 200, admin: 200 };
+const writeMembers = { visitor: 401, outsider: 403, contributor: 200, curator: 200, admin: 200 };
+const createMembers = { visitor: 401, outsider: 403, contributor: 201, curator: 201, admin: 201 };
+const adminOnly = { visitor: 401, outsider: 403, contributor: 403, curator: 403, admin: 200 };
+const anyone = { visitor: 200, outsider: 200, contributor: 200, curator: 200, admin: 200 };
+const signedIn = { visitor: 401, outsider: 200, contributor: 200, curator: 200, admin: 200 };
+
+const matrix: Record<string, Case> = {
+  "GET /api/me": { call: () => ({ url: "/api/me" }), expect: signedIn },
+  "GET /api/catalogue": { call: () => ({ url: "/api/catalogue" }), expect: anyone },
+  "GET /api/projects": { call: () => ({ url: "/api/projects" }), expect: signedIn },
+  "POST /api/projects": {
+    call: () => ({ url: "/api/projects", body: { name: `Matrix project ${u()}`, slug: `matrix-${u()}` } }),
+    expect: { ...adminOnly, admin: 201 },
+  },
+  "GET /api/projects/:id": { call: (i) => ({ url: `/api/projects/${i.projectId}` }), expect: readMembers },
+  "PATCH /api/projects/:id": {
+    call: (i) => ({ url: `/api/projects/${i.projectId}`, body: { description: `edited ${u()}` } }),
+    expect: { visitor: 401, outsider: 403, contributor: 403, curator: 200, admin: 200 },
+  },
+  "GET /api/projects/:id/members": { call: (i) => ({ url: `/api/projects/${i.projectId}/members` }), expect: readMembers },
+  "POST /api/projects/:id/members": {
+    call: async (i) => ({ url: `/api/projects/${i.projectId}/members`, body: { email: (await createTestUser()).email, role: "contributor" } }),
+    expect: { ...adminOnly, admin: 201 },
+  },
+  "DELETE /api/projects/:id/members/:userId": {
+    call: async (i) => {
+      const t = await createTestUser();
+      await addMembership(i.projectId, t.id, "contributor");
+      return { url: `/api/projects/${i.projectId}/members/${t.id}` };
+    },
+    expect: { ...adminOnly, admin: 204 },
+  },
+  "GET /api/projects/:id/platforms": { call: (i) => ({ url: `/api/projects/${i.projectId}/platforms` }), expect: readMembers },
+  "POST /api/projects/:id/platforms": {
+    call: (i) => ({ url: `/api/projects/${i.projectId}/platforms`, body: { name: `Buoy ${u()}`, kind: "mooring" } }),
+    expect: createMembers,
+  },
+  "GET /api/projects/:id/datasets": { call: (i) => ({ url: `/api/projects/${i.projectId}/datasets` }), expect: readMembers },
+  "POST /api/projects/:id/datasets": {
+    call: (i) => ({ url: `/api/projects/${i.projectId}/datasets`, body: { title: `Series ${u()}`, deploymentId: i.deploymentId } }),
+    expect: createMembers,
+  },
+  "GET /api/platforms/:id": { call: (i) => ({ url: `/api/platforms/${i.platformId}` }), expect: readMembers },
+  "PATCH /api/platforms/:id": { call: (i) => ({ url: `/api/platforms/${i.platformId}`, body: { description: `edited ${u()}` } }), expect: writeMembers },
+  "GET /api/platforms/:id/deployments": { call: (i) => ({ url: `/api/platforms/${i.platformId}/deployments` }), expect: readMembers },
+  "POST /api/platforms/:id/deployments": {
+    call: (i) => ({ url: `/api/platforms/${i.platformId}/deployments`, body: { name: `D-${u()}`, startTime: "2026-01-01T00:00:00Z" } }),
+    expect: createMembers,
+  },
+  "GET /api/deployments/:id": { call: (i) => ({ url: `/api/deployments/${i.deploymentId}` }), expect: readMembers },
+  "PATCH /api/deployments/:id": { call: (i) => ({ url: `/api/deployments/${i.deploymentId}`, body: { notes: `edited ${u()}` } }), expect: writeMembers },
+  // The dataset has no release yet, so only members see it.
+  "GET /api/datasets/:id": { call: (i) => ({ url: `/api/datasets/${i.datasetId}` }), expect: readMembers },
+  "PATCH /api/datasets/:id": { call: (i) => ({ url: `/api/datasets/${i.datasetId}`, body: { description: `edited ${u()}` } }), expect: writeMembers },
+  "GET /api/review-queue": { call: () => ({ url: "/api/review-queue" }), expect: signedIn },
+  "GET /api/admin/users": { call: () => ({ url: "/api/admin/users" }), expect: adminOnly },
+  "PATCH /api/admin/users/:id": {
+    call: async () => ({ url: `/api/admin/users/${(await createTestUser()).id}`, body: { isAdmin: false } }),
+    expect: adminOnly,
+  },
+  "GET /api/admin/mail": { call: () => ({ url: "/api/admin/mail" }), expect: adminOnly },
+};
+
+let ids: Ids;
+beforeAll(async () => {
+  testApp(); // registers every route
+  const setup = await makeProjectWithRoles();
+  const c = as(setup.users.contributor.cookie);
+  const platform = await c.post(`/api/projects/${setup.projectId}/platforms`).send({ name: "Matrix mooring", kind: "mooring" });
+  const deployment = await c.post(`/api/platforms/${platform.body.id}/deployments`).send({ name: "M-1", startTime: "2026-01-01T00:00:00Z" });
+  const dataset = await c.post(`/api/projects/${setup.projectId}/datasets`).send({ title: "Matrix series", deploymentId: deployment.body.id });
+  expect(dataset.status).toBe(201);
+  ids = { projectId: setup.projectId, platformId: platform.body.id, deploymentId: deployment.body.id, datasetId: dataset.body.id, users: setup.users };
+});
+
+describe("role × route matrix", () => {
+  test("every declared route has an entry in the matrix, and every entry is a declared route", () => {
+    const declared = routeRules.map((r) => `${r.method} ${r.path}`).sort();
+    expect(declared.filter((k) => !(k in matrix))).toEqual([]);
+    expect(Object.keys(matrix).filter((k) => !declared.includes(k))).toEqual([]);
+  });
+
+  const roles: Role[] = ["visitor", "outsider", "contributor", "curator", "admin"];
+  for (const [key, c] of Object.entries(matrix)) {
+    test(`${key}: ${roles.map((r) => `${r} ${c.expect[r]}`).join(", ")}`, async () => {
+      const [method, path] = key.split(" ") as [string, string];
+      const got: Record<string, number> = {};
+      for (const role of roles) {
+        const { url, body } = await c.call(ids);
+        const client = as(role === "visitor" ? null : ids.users[role].cookie);
+        const m = method.toLowerCase() as "get" | "post" | "patch" | "delete";
+        const res = body === undefined ? await client[m](url) : await client[m](url).send(body as object);
+        got[role] = res.status;
+        if (res.status >= 400) expect(res.body.error?.code, `${role} ${path}`).toBeTypeOf("string");
+      }
+      expect(got).toEqual(c.expect);
+    });
+  }
+});
