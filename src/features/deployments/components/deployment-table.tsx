@@ -10,8 +10,7 @@ export function DeploymentTable({ items, onEdit }: { items: Deployment[]; onEdit
       <thead>
         <tr>
           <Th>Deployment</Th>
-          <Th>Start (UTC)</Th>
-          <Th>End (UTC)</Th>
+          <Th>Period at sea (UTC)</Th>
           <Th numeric unit="°">Latitude</Th>
           <Th numeric unit="°">Longitude</Th>
           <Th numeric unit="m">Water depth</Th>
@@ -19,20 +18,30 @@ export function DeploymentTable({ items, onEdit }: { items: Deployment[]; onEdit
           <Th numeric unit="m">Anemometer</Th>
           <Th numeric unit="m">Current meter</Th>
           <Th numeric unit="° true">Offshore</Th>
-          {onEdit ? <Th className="text-right">Actions</Th> : null}
         </tr>
       </thead>
       <tbody>
         {items.map((d) => (
           <Tr key={d.id}>
-            <Td className="font-semibold">
-              {d.name}
-              {d.notes ? <div className="line-clamp-1 text-sm font-normal text-muted">{d.notes}</div> : null}
+            <Td>
+              <div className="flex items-start justify-between gap-2">
+                <span className="font-semibold">{d.name}</span>
+                {onEdit ? (
+                  <Button size="sm" variant="secondary" onClick={() => onEdit(d)} aria-label={`Edit deployment ${d.name}`}>
+                    Edit
+                  </Button>
+                ) : null}
+              </div>
+              {d.notes ? <div className="line-clamp-1 max-w-xs text-sm text-muted">{d.notes}</div> : null}
             </Td>
             <Td>
-              <UtcTime iso={d.startTime} />
+              <div>
+                <UtcTime iso={d.startTime} />
+              </div>
+              <div className="text-sm text-muted">
+                to {d.endTime ? <UtcTime iso={d.endTime} /> : "still at sea"}
+              </div>
             </Td>
-            <Td>{d.endTime ? <UtcTime iso={d.endTime} /> : <span className="text-sm text-muted">at sea</span>}</Td>
             <Td numeric>{formatLat(d.latitude)}</Td>
             <Td numeric>{formatLon(d.longitude)}</Td>
             <Td numeric>{formatNumber(d.waterDepthM, 0)}</Td>
@@ -40,13 +49,6 @@ export function DeploymentTable({ items, onEdit }: { items: Deployment[]; onEdit
             <Td numeric>{formatNumber(d.anemometerHeightM, 1)}</Td>
             <Td numeric>{formatNumber(d.currentMeterDepthM, 1)}</Td>
             <Td numeric>{formatNumber(d.coastlineOffshoreBearingDeg, 0)}</Td>
-            {onEdit ? (
-              <Td className="text-right">
-                <Button size="sm" variant="secondary" onClick={() => onEdit(d)} aria-label={`Edit deployment ${d.name}`}>
-                  Edit
-                </Button>
-              </Td>
-            ) : null}
           </Tr>
         ))}
       </tbody>
