@@ -25,7 +25,7 @@ export function Component() {
   return (
     <AuthCard title="E-mail address confirmed">
       <Alert tone="success" title="Your account is active">
-        {me ? "You are signed in." : "You can now sign in."} To work in a project, ask its administrator to add you as a contributor or curator.
+        {me ? "You are signed in." : "You can now sign in."} To work in an observing project, ask a Tauline administrator to add you to it as a contributor or curator.
       </Alert>
       <ButtonLink className="mt-4" variant="primary" to={me ? paths.projects() : paths.signIn()}>
         {me ? "Go to my projects" : "Sign in"}

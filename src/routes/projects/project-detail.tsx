@@ -18,6 +18,8 @@ import { CreatePlatformForm } from "@/features/platforms/components/platform-for
 import { PlatformTable } from "@/features/platforms/components/platform-table";
 import { deploymentsQueryOptions } from "@/features/deployments/api/get-deployments";
 import { useDatasets } from "@/features/datasets/api/get-datasets";
+import { EditProjectForm } from "@/features/projects/components/project-form";
+import { showToast } from "@/lib/toast";
 import { CreateDatasetForm } from "@/features/datasets/components/dataset-form";
 import { DatasetTable } from "@/features/datasets/components/dataset-table";
 import { useMembers } from "@/features/members/api/get-members";
@@ -122,11 +124,13 @@ export function Component() {
   const { projectId = "" } = useParams();
   const { data: project, isPending, error } = useProject(projectId);
   const { data: me } = useMe();
+  const [editing, setEditing] = useState(false);
   if (isPending) return <Loading label="Loading the project…" />;
   if (error) throw error;
   const role = roleIn(me, projectId) ?? project.myRole;
   const isAdmin = !!me?.user.isAdmin;
   const contribute = canContribute(me, projectId) || role !== null;
+  const canEditProject = isAdmin || role === "curator";
 
   return (
     <>
@@ -150,7 +154,21 @@ export function Component() {
             {project.description ? <p className="mt-2">{project.description}</p> : null}
           </>
         }
+        actions={canEditProject && !editing ? <Button variant="secondary" onClick={() => setEditing(true)}>Edit project</Button> : null}
       />
+      {editing ? (
+        <Panel className="mb-8">
+          <h2 className="mb-3 text-lg font-semibold">Edit project</h2>
+          <EditProjectForm
+            project={project}
+            onCancel={() => setEditing(false)}
+            onDone={() => {
+              setEditing(false);
+              showToast("Project saved.", "success");
+            }}
+          />
+        </Panel>
+      ) : null}
       {project.counts ? (
         <dl className="mb-8 grid grid-cols-3 gap-3 sm:max-w-lg">
           {(

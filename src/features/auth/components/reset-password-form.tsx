@@ -64,7 +64,7 @@ export function ResetPasswordForm({ token }: { token: string | null }) {
         error={formState.errors.password?.message}
         {...register("password")}
       />
-      <TextField label="Repeat new password" type="password" autoComplete="new-password" error={formState.errors.confirm?.message} {...register("confirm")} />
+      <TextField label="Confirm password" type="password" autoComplete="new-password" error={formState.errors.confirm?.message} {...register("confirm")} />
       <Button type="submit" busy={formState.isSubmitting} disabled={formState.isSubmitting}>
         Set new password
       </Button>

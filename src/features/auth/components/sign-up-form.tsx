@@ -63,7 +63,7 @@ export function SignUpForm() {
         error={formState.errors.password?.message}
         {...register("password")}
       />
-      <TextField label="Repeat password" type="password" autoComplete="new-password" error={formState.errors.confirm?.message} {...register("confirm")} />
+      <TextField label="Confirm password" type="password" autoComplete="new-password" error={formState.errors.confirm?.message} {...register("confirm")} />
       <Button type="submit" busy={formState.isSubmitting} disabled={formState.isSubmitting}>
         Create account
       </Button>

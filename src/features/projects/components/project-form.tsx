@@ -1,13 +1,14 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useState } from "react";
 import { useForm } from "react-hook-form";
-import { createProjectInputSchema, type CreateProjectInput, type Project } from "@shared/schemas/projects";
+import { createProjectInputSchema, updateProjectInputSchema, type CreateProjectInput, type Project } from "@shared/schemas/projects";
 import type { z } from "zod";
 import { applyServerErrors } from "@/lib/form-errors";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
 import { TextareaField, TextField } from "@/components/ui/field";
 import { useCreateProject } from "../api/create-project";
+import { useUpdateProject } from "../api/update-project";
 
 const fields = ["name", "slug", "description"] as const;
 
@@ -57,6 +58,45 @@ export function CreateProjectForm({ onDone, onCancel }: { onDone: (p: Project) =
       <div className="flex gap-2 sm:col-span-2">
         <Button type="submit" busy={formState.isSubmitting} disabled={formState.isSubmitting}>
           Create project
+        </Button>
+        <Button variant="secondary" onClick={onCancel}>
+          Cancel
+        </Button>
+      </div>
+    </form>
+  );
+}
+
+export function EditProjectForm({ project, onDone, onCancel }: { project: Project; onDone: () => void; onCancel: () => void }) {
+  const update = useUpdateProject(project.id);
+  const [formError, setFormError] = useState<string | null>(null);
+  const { register, handleSubmit, formState, setError } = useForm<z.input<typeof createProjectInputSchema>, unknown, CreateProjectInput>({
+    resolver: zodResolver(updateProjectInputSchema) as never,
+    defaultValues: { name: project.name, slug: project.slug, description: project.description ?? "" },
+  });
+  const onSubmit = handleSubmit(async (v) => {
+    setFormError(null);
+    try {
+      await update.mutateAsync(v);
+      onDone();
+    } catch (err) {
+      setFormError(applyServerErrors(err, setError, fields));
+    }
+  });
+  return (
+    <form onSubmit={onSubmit} noValidate className="grid gap-4 sm:grid-cols-2" aria-label="Edit project">
+      {formError ? <Alert tone="attention" className="sm:col-span-2">{formError}</Alert> : null}
+      <TextField label="Project name" error={formState.errors.name?.message} {...register("name")} />
+      <TextField
+        label="Short name"
+        hint="Changing it changes the project's file names in future exports."
+        error={formState.errors.slug?.message}
+        {...register("slug")}
+      />
+      <TextareaField className="sm:col-span-2" label="Description" error={formState.errors.description?.message} {...register("description")} />
+      <div className="flex gap-2 sm:col-span-2">
+        <Button type="submit" busy={formState.isSubmitting} disabled={formState.isSubmitting}>
+          Save project
         </Button>
         <Button variant="secondary" onClick={onCancel}>
           Cancel
