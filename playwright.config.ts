@@ -1,6 +1,10 @@
 import { defineConfig } from "@playwright/test";
 
-const port = Number(process.env.E2E_PORT ?? 3998);
+// Chosen once in the main process; workers inherit it. Distinct per run so parallel runs never meet.
+process.env.E2E_PORT ??= String(30000 + (process.pid % 20000));
+process.env.E2E_SMTP_PORT ??= String(Number(process.env.E2E_PORT) + 1);
+process.env.E2E_DB ??= `tauline_e2e_${process.env.E2E_PORT}`;
+const port = Number(process.env.E2E_PORT);
 const baseURL = `http://127.0.0.1:${port}`;
 
 /** Browser tests: Debian's Chromium (never a downloaded browser) against the full stack on its own database. */
@@ -30,16 +34,16 @@ export default defineConfig({
     env: {
       PG_DIR: process.env.TEST_PG_DIR ?? ".pg-test",
       PG_PORT: process.env.TEST_PG_PORT ?? "55433",
-      PG_DB: "tauline_e2e",
+      PG_DB: process.env.E2E_DB,
       FRESH_DB: "1",
       KEEP_PG: "1",
       PORT: String(port),
-      SMTP_PORT: process.env.E2E_SMTP_PORT ?? "2727",
+      SMTP_PORT: process.env.E2E_SMTP_PORT,
       PUBLIC_URL: baseURL,
       DEMO: "1",
       NODE_ENV: "test",
       LOG_LEVEL: "warn",
-      STORAGE_DIR: "storage-e2e",
+      STORAGE_DIR: `storage-e2e/${process.env.E2E_PORT}`,
     },
   },
 });

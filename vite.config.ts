@@ -7,10 +7,12 @@ const r = (p: string) => fileURLToPath(new URL(p, import.meta.url));
 
 /** The API tests' own database, mail port and origin (scripts/test.sh starts the cluster; global setup does too). */
 const testPgPort = process.env.TEST_PG_PORT ?? "55433";
+// One database and mail port per test run, so runs in parallel (several engineers on one machine) never meet.
+process.env.TEST_RUN_ID ??= String(process.pid);
 const testEnv = {
   NODE_ENV: "test",
-  DATABASE_URL: `postgres://postgres@127.0.0.1:${testPgPort}/tauline_api`,
-  SMTP_PORT: process.env.TEST_SMTP_PORT ?? "2626",
+  DATABASE_URL: `postgres://postgres@127.0.0.1:${testPgPort}/tauline_api_${process.env.TEST_RUN_ID}`,
+  SMTP_PORT: process.env.TEST_SMTP_PORT ?? String(20000 + (Number(process.env.TEST_RUN_ID) % 20000)),
   PUBLIC_URL: "http://127.0.0.1:3999",
   AUTH_RATE_LIMIT: "1000",
   STORAGE_DIR: "storage-test",

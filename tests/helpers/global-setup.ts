@@ -1,22 +1,25 @@
 import { execFileSync } from "node:child_process";
 import pg from "pg";
+import type { TestProject } from "vitest/node";
 
 /**
  * API-test setup: makes sure the test cluster runs, gives the API tests a fresh database with every
  * migration applied, and starts the fake SMTP server that keeps mail in that database.
  */
-export default async function setup() {
-  const url = new URL(process.env.TEST_DATABASE_URL ?? `postgres://postgres@127.0.0.1:${process.env.TEST_PG_PORT ?? "55433"}/tauline_api`);
+export default async function setup(project: TestProject) {
+  const env = project.config.env as Record<string, string>;
+  const url = new URL(env.DATABASE_URL!);
   const dbName = url.pathname.slice(1);
   execFileSync("bash", ["scripts/pg.sh", "start", process.env.TEST_PG_DIR ?? ".pg-test", url.port, "postgres"], { stdio: "inherit" });
-  const admin = new pg.Client({ connectionString: `postgres://postgres@127.0.0.1:${url.port}/postgres` });
+  const adminUrl = `postgres://postgres@127.0.0.1:${url.port}/postgres`;
+  const admin = new pg.Client({ connectionString: adminUrl });
   await admin.connect();
   await admin.query(`drop database if exists ${dbName} with (force)`);
   await admin.query(`create database ${dbName}`);
   await admin.end();
 
   process.env.DATABASE_URL = url.toString();
-  process.env.SMTP_PORT = process.env.TEST_SMTP_PORT ?? "2626";
+  process.env.SMTP_PORT = env.SMTP_PORT;
   process.env.NODE_ENV = "test";
   process.env.LOG_LEVEL = "silent";
   const { db, pool } = await import("../../server/db/client");
@@ -28,5 +31,9 @@ export default async function setup() {
   return async () => {
     await smtp.close();
     await pool.end();
+    const c = new pg.Client({ connectionString: adminUrl });
+    await c.connect();
+    await c.query(`drop database if exists ${dbName} with (force)`);
+    await c.end();
   };
 }
