@@ -72,9 +72,11 @@ export function AppShell() {
                 <Link to={paths.signIn()} className={buttonClass("secondary", "sm")}>
                   Sign in
                 </Link>
-                <Link to={paths.signUp()} className={clsx(buttonClass("primary", "sm"), "hidden sm:inline-flex")}>
-                  Create account
-                </Link>
+                <span className="hidden sm:inline-flex">
+                  <Link to={paths.signUp()} className={buttonClass("primary", "sm")}>
+                    Create account
+                  </Link>
+                </span>
               </>
             ) : null}
           </div>

@@ -24,7 +24,7 @@ export function ThemeToggle() {
         saveThemeChoice(next);
         setChoice(next);
       }}
-      className="inline-flex items-center gap-1.5 rounded-md border border-line px-2 py-1 text-sm text-fg hover:bg-sunken"
+      className="inline-flex items-center gap-1.5 rounded-md border border-field px-2 py-1 text-sm text-fg hover:bg-sunken"
       aria-label={`Colour theme: ${words[choice]}. Switch to ${words[next]}`}
       title={`Colour theme: ${words[choice]}`}
     >
@@ -33,7 +33,7 @@ export function ThemeToggle() {
         {choice === "light" ? null : <path d="M8 2a6 6 0 0 1 0 12z" fill="currentColor" />}
         {choice === "system" ? <path d="M8 2a6 6 0 0 0 0 12z" fill="currentColor" opacity="0.25" /> : null}
       </svg>
-      <span>Theme: {words[choice]}</span>
+      <span className="hidden sm:inline">Theme: {words[choice]}</span>
     </button>
   );
 }

@@ -9,7 +9,7 @@ const base =
   "inline-flex items-center justify-center gap-1.5 rounded-md font-semibold transition-colors disabled:cursor-not-allowed disabled:opacity-55 no-underline";
 const variants: Record<Variant, string> = {
   primary: "bg-accent text-accent-fg hover:bg-accent-hover hover:text-accent-fg",
-  secondary: "border border-line bg-surface text-fg hover:bg-sunken hover:text-fg",
+  secondary: "border border-field bg-surface text-fg hover:bg-sunken hover:text-fg",
   ghost: "text-accent hover:bg-sunken",
   attention: "border border-signal text-signal bg-surface hover:bg-signal-soft",
 };

@@ -2,7 +2,7 @@ import clsx from "clsx";
 import { useId, type ComponentProps, type ReactNode } from "react";
 
 const control =
-  "block w-full rounded-md border border-line bg-surface px-3 py-2 text-fg placeholder:text-muted/80 aria-[invalid=true]:border-signal aria-[invalid=true]:border-2";
+  "block w-full rounded-md border border-field bg-surface px-3 py-2 text-fg placeholder:text-muted/80 aria-[invalid=true]:border-signal aria-[invalid=true]:border-2";
 
 type FieldFrameProps = { label: ReactNode; hint?: ReactNode; error?: string; className?: string };
 
