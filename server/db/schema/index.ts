@@ -1,3 +1,4 @@
 export * from "./auth";
 export * from "./projects";
 export * from "./datasets";
+export * from "./uploads";
