@@ -5,7 +5,7 @@
 # (Playwright driving Debian's Chromium), stops what it started, and ends with one line of totals.
 set -uo pipefail
 cd "$(dirname "$0")/.."
-export NO_COLOR=1 FORCE_COLOR=0
+export NO_COLOR=1
 export TEST_PG_DIR=${TEST_PG_DIR:-.pg-test} TEST_PG_PORT=${TEST_PG_PORT:-55433}
 artifacts=tests/artifacts
 rm -rf "$artifacts"; mkdir -p "$artifacts"
