@@ -2,3 +2,4 @@ export * from "./auth";
 export * from "./projects";
 export * from "./datasets";
 export * from "./uploads";
+export * from "./curation";
