@@ -35,7 +35,7 @@ export function AppShell() {
         Skip to content
       </a>
       <header className="border-b border-line bg-surface">
-        <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-4 gap-y-2 px-4 py-2.5">
+        <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-4 gap-y-2 px-4 py-2.5">
           <Link to={paths.home()} className="text-fg no-underline hover:text-fg" aria-label="Tauline home">
             <Wordmark />
           </Link>
@@ -82,11 +82,11 @@ export function AppShell() {
           </div>
         </div>
       </header>
-      <main id="main" tabIndex={-1} className="mx-auto w-full max-w-6xl flex-1 px-4 py-6 outline-none sm:py-8">
+      <main id="main" tabIndex={-1} className="mx-auto w-full max-w-7xl flex-1 px-4 py-6 outline-none sm:py-8">
         <Outlet />
       </main>
       <footer className="border-t border-line bg-surface">
-        <div className="mx-auto flex max-w-6xl flex-col gap-1 px-4 py-4 text-sm text-muted sm:flex-row sm:justify-between">
+        <div className="mx-auto flex max-w-7xl flex-col gap-1 px-4 py-4 text-sm text-muted sm:flex-row sm:justify-between">
           <p className="max-w-3xl">
             Derived diagnostics are scientific estimates, not guidance for navigation, offshore operations or safety. Defer to official forecasts, local
             regulations and qualified practice.

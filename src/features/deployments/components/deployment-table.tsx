@@ -13,7 +13,7 @@ export function DeploymentTable({ items, onEdit }: { items: Deployment[]; onEdit
           <Th>Period at sea (UTC)</Th>
           <Th numeric unit="°">Latitude</Th>
           <Th numeric unit="°">Longitude</Th>
-          <Th numeric unit="m">Water depth</Th>
+          <Th numeric unit="m">Depth</Th>
           <Th numeric unit="m">Watch circle</Th>
           <Th numeric unit="m">Anemometer</Th>
           <Th numeric unit="m">Current meter</Th>
@@ -25,7 +25,7 @@ export function DeploymentTable({ items, onEdit }: { items: Deployment[]; onEdit
           <Tr key={d.id}>
             <Td>
               <div className="flex items-start justify-between gap-2">
-                <span className="font-semibold">{d.name}</span>
+                <span className="whitespace-nowrap font-semibold">{d.name}</span>
                 {onEdit ? (
                   <Button size="sm" variant="secondary" onClick={() => onEdit(d)} aria-label={`Edit deployment ${d.name}`}>
                     Edit
