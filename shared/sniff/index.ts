@@ -1,0 +1,4 @@
+export * from "./encoding";
+export * from "./dialect";
+export * from "./scan";
+export * from "./suggest";
