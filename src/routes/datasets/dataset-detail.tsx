@@ -1,6 +1,7 @@
 import { useState } from "react";
-import { Link, useParams } from "react-router-dom";
+import { Link, useParams, type LoaderFunctionArgs } from "react-router-dom";
 import { paths } from "@/config/paths";
+import { queryClient } from "@/lib/query-client";
 import { formatUtc } from "@/lib/format";
 import { showToast } from "@/lib/toast";
 import { canContribute, useMe } from "@/lib/session";
@@ -13,7 +14,7 @@ import { Loading } from "@/components/ui/loading";
 import { PageHeader } from "@/components/ui/page-header";
 import { Panel, Section } from "@/components/ui/section";
 import { StateBadge } from "@/components/ui/state-badge";
-import { useDataset } from "@/features/datasets/api/get-dataset";
+import { datasetQueryOptions, useDataset } from "@/features/datasets/api/get-dataset";
 import { EditDatasetForm } from "@/features/datasets/components/dataset-form";
 import { VersionsTable } from "@/features/datasets/components/versions-table";
 
@@ -135,4 +136,10 @@ export function Component() {
     </>
   );
 }
+/** Start fetching before render; errors surface in the component. */
+export function loader({ params }: LoaderFunctionArgs) {
+  void queryClient.prefetchQuery(datasetQueryOptions(params.datasetId ?? ""));
+  return null;
+}
+
 export { RouteError as ErrorBoundary } from "@/components/layout/route-error";

@@ -1,7 +1,8 @@
 import { useState } from "react";
-import { Link, useParams } from "react-router-dom";
+import { Link, useParams, type LoaderFunctionArgs } from "react-router-dom";
 import type { Deployment } from "@shared/schemas/platforms";
 import { paths } from "@/config/paths";
+import { queryClient } from "@/lib/query-client";
 import { getErrorMessage } from "@/lib/api-client";
 import { showToast } from "@/lib/toast";
 import { canContribute, useMe } from "@/lib/session";
@@ -13,9 +14,9 @@ import { Loading } from "@/components/ui/loading";
 import { PageHeader } from "@/components/ui/page-header";
 import { Panel, Section } from "@/components/ui/section";
 import { useProject } from "@/features/projects/api/get-project";
-import { usePlatform } from "@/features/platforms/api/get-platform";
+import { platformQueryOptions, usePlatform } from "@/features/platforms/api/get-platform";
 import { EditPlatformForm } from "@/features/platforms/components/platform-form";
-import { useDeployments } from "@/features/deployments/api/get-deployments";
+import { deploymentsQueryOptions, useDeployments } from "@/features/deployments/api/get-deployments";
 import { DeploymentForm } from "@/features/deployments/components/deployment-form";
 import { DeploymentTable } from "@/features/deployments/components/deployment-table";
 
@@ -107,4 +108,12 @@ export function Component() {
     </>
   );
 }
+/** Start fetching before render; errors surface in the component, where the session check runs first. */
+export function loader({ params }: LoaderFunctionArgs) {
+  const id = params.platformId ?? "";
+  void queryClient.prefetchQuery(platformQueryOptions(id));
+  void queryClient.prefetchQuery(deploymentsQueryOptions(id));
+  return null;
+}
+
 export { RouteError as ErrorBoundary } from "@/components/layout/route-error";

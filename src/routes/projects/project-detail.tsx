@@ -1,7 +1,8 @@
 import { useQueries } from "@tanstack/react-query";
 import { useState } from "react";
-import { Link, useNavigate, useParams } from "react-router-dom";
+import { Link, useNavigate, useParams, type LoaderFunctionArgs } from "react-router-dom";
 import { paths } from "@/config/paths";
+import { queryClient } from "@/lib/query-client";
 import { getErrorMessage } from "@/lib/api-client";
 import { formatUtcDate } from "@/lib/format";
 import { canContribute, roleIn, useMe } from "@/lib/session";
@@ -12,12 +13,12 @@ import { Loading } from "@/components/ui/loading";
 import { PageHeader } from "@/components/ui/page-header";
 import { Panel, Section } from "@/components/ui/section";
 import { RoleBadge } from "@/components/ui/state-badge";
-import { useProject } from "@/features/projects/api/get-project";
-import { usePlatforms } from "@/features/platforms/api/get-platforms";
+import { projectQueryOptions, useProject } from "@/features/projects/api/get-project";
+import { platformsQueryOptions, usePlatforms } from "@/features/platforms/api/get-platforms";
 import { CreatePlatformForm } from "@/features/platforms/components/platform-form";
 import { PlatformTable } from "@/features/platforms/components/platform-table";
 import { deploymentsQueryOptions } from "@/features/deployments/api/get-deployments";
-import { useDatasets } from "@/features/datasets/api/get-datasets";
+import { datasetsQueryOptions, useDatasets } from "@/features/datasets/api/get-datasets";
 import { EditProjectForm } from "@/features/projects/components/project-form";
 import { showToast } from "@/lib/toast";
 import { CreateDatasetForm } from "@/features/datasets/components/dataset-form";
@@ -198,4 +199,13 @@ export function Component() {
     </>
   );
 }
+/** Start fetching before render; errors surface in the component, where the session check runs first. */
+export function loader({ params }: LoaderFunctionArgs) {
+  const id = params.projectId ?? "";
+  void queryClient.prefetchQuery(projectQueryOptions(id));
+  void queryClient.prefetchQuery(platformsQueryOptions(id));
+  void queryClient.prefetchQuery(datasetsQueryOptions(id));
+  return null;
+}
+
 export { RouteError as ErrorBoundary } from "@/components/layout/route-error";

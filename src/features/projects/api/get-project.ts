@@ -6,4 +6,4 @@ import { api } from "@/lib/api-client";
 export const projectQueryOptions = (id: string) =>
   queryOptions({ queryKey: ["projects", id], queryFn: ({ signal }) => api.get<Project>(`/api/projects/${id}`, signal) });
 
-export const useProject = (id: string) => useQuery(projectQueryOptions(id));
+export const useProject = (id: string) => useQuery({ ...projectQueryOptions(id), enabled: id !== "" });
