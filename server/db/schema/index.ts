@@ -3,3 +3,4 @@ export * from "./projects";
 export * from "./datasets";
 export * from "./uploads";
 export * from "./curation";
+export * from "./records";
