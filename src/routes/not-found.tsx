@@ -1,7 +1,9 @@
 import { paths } from "@/config/paths";
+import { useDocumentTitle } from "@/lib/use-document-title";
 import { ButtonLink } from "@/components/ui/button";
 
 export function Component() {
+  useDocumentTitle("Page not found");
   return (
     <div className="mx-auto max-w-xl py-10 text-center">
       <p className="num text-sm text-signal">Error 404</p>

@@ -1,5 +1,6 @@
 import clsx from "clsx";
-import { Link, NavLink, Outlet, useNavigate } from "react-router-dom";
+import { useEffect, useRef } from "react";
+import { Link, NavLink, Outlet, useLocation, useNavigate } from "react-router-dom";
 import { paths } from "@/config/paths";
 import { isCuratorAnywhere, useMe, useSignOut } from "@/lib/session";
 import { Wordmark } from "@/components/ui/logo";
@@ -28,6 +29,19 @@ export function AppShell() {
   const { data: me } = useMe();
   const signOut = useSignOut();
   const navigate = useNavigate();
+  const { pathname } = useLocation();
+  const mainRef = useRef<HTMLElement>(null);
+  const firstRender = useRef(true);
+
+  // After a client-side page change, move focus to the new page so keyboard and screen-reader users start at its top.
+  useEffect(() => {
+    if (firstRender.current) {
+      firstRender.current = false;
+      return;
+    }
+    mainRef.current?.focus({ preventScroll: true });
+    window.scrollTo(0, 0);
+  }, [pathname]);
 
   return (
     <div className="flex min-h-screen flex-col">
@@ -82,7 +96,7 @@ export function AppShell() {
           </div>
         </div>
       </header>
-      <main id="main" tabIndex={-1} className="mx-auto w-full max-w-7xl flex-1 px-4 py-6 outline-none sm:py-8">
+      <main id="main" ref={mainRef} tabIndex={-1} className="mx-auto w-full max-w-7xl flex-1 px-4 py-6 outline-none sm:py-8">
         <Outlet />
       </main>
       <footer className="border-t border-line bg-surface">

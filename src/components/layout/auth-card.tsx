@@ -1,8 +1,10 @@
 import type { ReactNode } from "react";
 import { LogoMark } from "@/components/ui/logo";
+import { useDocumentTitle } from "@/lib/use-document-title";
 
 /** Narrow centred frame for the sign-in family of pages. */
 export function AuthCard({ title, intro, children, footer }: { title: string; intro?: ReactNode; children: ReactNode; footer?: ReactNode }) {
+  useDocumentTitle(title);
   return (
     <div className="mx-auto w-full max-w-md">
       <div className="rounded-xl border border-line bg-surface p-6 shadow-sm sm:p-8">

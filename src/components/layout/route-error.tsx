@@ -1,6 +1,7 @@
 import { isRouteErrorResponse, Link, useRouteError } from "react-router-dom";
 import { ApiError, getErrorMessage } from "@/lib/api-client";
 import { paths } from "@/config/paths";
+import { useDocumentTitle } from "@/lib/use-document-title";
 import { buttonClass } from "@/components/ui/button";
 
 function describe(error: unknown): { status?: number; title: string; text: string } {
@@ -20,6 +21,7 @@ function describe(error: unknown): { status?: number; title: string; text: strin
 export function RouteError() {
   const error = useRouteError();
   const d = describe(error);
+  useDocumentTitle(d.title);
   return (
     <div role="alert" className="mx-auto max-w-xl rounded-lg border border-signal bg-surface p-6">
       <p className="num text-sm text-signal">{d.status ? `Error ${d.status}` : "Error"}</p>

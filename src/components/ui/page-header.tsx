@@ -1,6 +1,8 @@
 import type { ReactNode } from "react";
+import { useDocumentTitle } from "@/lib/use-document-title";
 
 export function PageHeader({ title, eyebrow, description, actions }: { title: ReactNode; eyebrow?: ReactNode; description?: ReactNode; actions?: ReactNode }) {
+  useDocumentTitle(title);
   return (
     <header className="mb-6 flex flex-wrap items-end justify-between gap-3">
       <div className="min-w-0">
