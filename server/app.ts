@@ -17,6 +17,9 @@ import { adminApi, meApi } from "./routes/admin";
 import { catalogueApi, datasetsApi, reviewApi } from "./routes/datasets";
 import { deploymentsApi, platformsApi } from "./routes/platforms";
 import { projectsApi } from "./routes/projects";
+import { curationApi, followApi } from "./routes/curation";
+import { notificationsApi } from "./routes/notifications";
+import { datasetReleasesApi, releaseActionsApi, releasesApi } from "./routes/releases";
 
 export interface AppOptions {
   /** Sign-in attempts per window per IP (defaults from env). */
@@ -87,7 +90,7 @@ export function createApp(options: AppOptions = {}): Express {
     }
   }) as RequestHandler);
 
-  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi]) {
+  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi]) {
     app.use(api.base, api.router);
   }
   app.use("/api", notFoundHandler);

@@ -2,6 +2,7 @@ import { randomUUID } from "node:crypto";
 import { beforeAll, describe, expect, test } from "vitest";
 import { routeRules } from "../../server/lib/routes";
 import { addMembership, as, createTestUser, makeProjectWithRoles, testApp, type Role, type TestUser } from "../helpers/api";
+import { makeDataset, makeVersion } from "../helpers/curation";
 
 /**
  * Every API route × every role, expected statuses in one table. A route the API declares without an
@@ -20,6 +21,17 @@ const createMembers = { visitor: 401, outsider: 403, contributor: 201, curator: 
 const adminOnly = { visitor: 401, outsider: 403, contributor: 403, curator: 403, admin: 200 };
 const anyone = { visitor: 200, outsider: 200, contributor: 200, curator: 200, admin: 200 };
 const signedIn = { visitor: 401, outsider: 200, contributor: 200, curator: 200, admin: 200 };
+
+const curatorsOnly = { visitor: 401, outsider: 403, contributor: 403, curator: 200, admin: 200 };
+/** A fresh version of the matrix dataset, built and uploaded by the contributor (so curators may review it). */
+const curationVersion = (i: Ids, state: "ready" | "in_review" | "approved") =>
+  makeVersion({ datasetId: i.datasetId, state, createdBy: i.users.contributor.id, uploaderId: i.users.contributor.id });
+async function releasedVersion(i: Ids) {
+  const v = await curationVersion(i, "approved");
+  const res = await as(i.users.curator.cookie).post(`/api/versions/${v}/release`).send({});
+  expect(res.status).toBe(201);
+  return v;
+}
 
 const matrix: Record<string, Case> = {
   "GET /api/me": { call: () => ({ url: "/api/me" }), expect: signedIn },
@@ -70,6 +82,46 @@ const matrix: Record<string, Case> = {
   "GET /api/datasets/:id": { call: (i) => ({ url: `/api/datasets/${i.datasetId}` }), expect: readMembers },
   "PATCH /api/datasets/:id": { call: (i) => ({ url: `/api/datasets/${i.datasetId}`, body: { description: `edited ${u()}` } }), expect: writeMembers },
   "GET /api/review-queue": { call: () => ({ url: "/api/review-queue" }), expect: signedIn },
+  "GET /api/versions/:id/review": { call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "in_review")}/review` }), expect: readMembers },
+  "POST /api/versions/:id/submit": { call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "ready")}/submit`, body: {} }), expect: writeMembers },
+  "POST /api/versions/:id/approve": { call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "in_review")}/approve`, body: {} }), expect: curatorsOnly },
+  "POST /api/versions/:id/reject": {
+    call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "in_review")}/reject`, body: { reason: "Spikes in wind speed left unflagged" } }),
+    expect: curatorsOnly,
+  },
+  "POST /api/versions/:id/request-changes": {
+    call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "in_review")}/request-changes`, body: { reason: "Map the gust column" } }),
+    expect: curatorsOnly,
+  },
+  "POST /api/versions/:id/release": {
+    call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "approved")}/release`, body: {} }),
+    expect: { ...curatorsOnly, curator: 201, admin: 201 },
+  },
+  "POST /api/versions/:id/retract": {
+    call: async (i) => ({ url: `/api/versions/${await releasedVersion(i)}/retract`, body: { reason: "Clock drift found after release" } }),
+    expect: curatorsOnly,
+  },
+  "GET /api/versions/:id/comments": { call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "in_review")}/comments` }), expect: readMembers },
+  "POST /api/versions/:id/comments": {
+    call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "in_review")}/comments`, body: { body: "Gaps on 12 March?" } }),
+    expect: createMembers,
+  },
+  // Releases are public, retracted ones included (as tombstones).
+  "GET /api/releases/:id": {
+    call: async (i) => {
+      const v = await releasedVersion(i);
+      const rel = await as(i.users.curator.cookie).get(`/api/versions/${v}/review`);
+      return { url: `/api/releases/${rel.body.releaseId}` };
+    },
+    expect: anyone,
+  },
+  // A dataset without a release: its (empty) release list and follow button are as private as the dataset.
+  "GET /api/datasets/:id/releases": { call: async (i) => ({ url: `/api/datasets/${await makeDataset(i.projectId)}/releases` }), expect: readMembers },
+  "GET /api/datasets/:id/follow": { call: async (i) => ({ url: `/api/datasets/${await makeDataset(i.projectId)}/follow` }), expect: readMembers },
+  "POST /api/datasets/:id/follow": { call: async (i) => ({ url: `/api/datasets/${await makeDataset(i.projectId)}/follow`, body: {} }), expect: writeMembers },
+  "DELETE /api/datasets/:id/follow": { call: async (i) => ({ url: `/api/datasets/${await makeDataset(i.projectId)}/follow` }), expect: writeMembers },
+  "GET /api/notifications": { call: () => ({ url: "/api/notifications" }), expect: signedIn },
+  "POST /api/notifications/read": { call: () => ({ url: "/api/notifications/read", body: { all: true } }), expect: signedIn },
   "GET /api/admin/users": { call: () => ({ url: "/api/admin/users" }), expect: adminOnly },
   "PATCH /api/admin/users/:id": {
     call: async () => ({ url: `/api/admin/users/${(await createTestUser()).id}`, body: { isAdmin: false } }),
