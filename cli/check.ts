@@ -7,7 +7,7 @@ import { inferInterval } from "../shared/compute/timing";
 import { CAUTION, type DeploymentContext } from "../shared/compute/diagnostics";
 import { dragLaws, type DragLaw } from "../shared/compute/physics";
 import { testLabels, TEST } from "../shared/compute/flags";
-import type { ParseWarning } from "../shared/compute/canonical";
+import { ENGINE_SLICE, sliceChunk, type ParseWarning } from "../shared/compute/canonical";
 import { InputError, openCanonicalStream } from "./lib/read-csv";
 import { blockToCsv, outputColumns } from "./lib/write-csv";
 
@@ -111,9 +111,10 @@ export async function runCheck(file: string, opts: CheckOptions, print: (line: s
         inferred = inferInterval(chunk.time, chunk.platform);
         if (Number.isFinite(inferred)) settings.timing.expectedIntervalS = inferred;
       }
-      engine = createEngine(settings, ctx, variables);
+      // Blocks are written out before the next push, so the engine may reuse their arrays.
+      engine = createEngine(settings, ctx, variables, { reuseBlocks: true });
     }
-    await emit(engine.push(chunk));
+    for (let s = 0; s < chunk.n; s += ENGINE_SLICE) await emit(engine.push(sliceChunk(chunk, s, Math.min(chunk.n, s + ENGINE_SLICE))));
   }
   if (!engine) throw new InputError(`${file}: no data rows after the header`);
   await emit(engine.finish());

@@ -312,3 +312,26 @@ export function createCanonicalizer(map: ColumnMap): Canonicalizer {
     },
   };
 }
+
+/**
+ * Records [start, end) of a chunk as views (no copy). The engine runs fastest on chunks of a few thousand records,
+ * where its columns stay in the processor cache, so streaming callers cut large parsed pieces with this. O(columns).
+ */
+export function sliceChunk(c: RecordChunk, start: number, end: number): RecordChunk {
+  const values: RecordChunk["values"] = {};
+  const bad: RecordChunk["bad"] = {};
+  for (const [k, v] of Object.entries(c.values)) values[k as MeasuredVariable] = v!.subarray(start, end);
+  for (const [k, v] of Object.entries(c.bad)) bad[k as MeasuredVariable] = v!.subarray(start, end);
+  return {
+    n: end - start,
+    time: c.time.subarray(start, end),
+    platform: c.platform ? c.platform.subarray(start, end) : null,
+    line: c.line.subarray(start, end),
+    values,
+    bad,
+    recordBad: c.recordBad.subarray(start, end),
+  };
+}
+
+/** Suggested number of records per engine push (see `sliceChunk`). */
+export const ENGINE_SLICE = 8192;

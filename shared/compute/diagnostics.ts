@@ -1,22 +1,34 @@
 import type { QcSettings } from "../schemas/qc-settings";
 import type { DerivedVariable, MeasuredVariable } from "../vocabulary";
-import { toBearing, wrap180 } from "./directions";
-import { FLAG, worseDerivedFlag } from "./flags";
+import { FLAG, worseDerivedFlag as _worseDerivedFlag } from "./flags";
 import {
-  airDensity,
-  coriolis,
-  dragCoefficient,
+  airDensity as _airDensity,
+  coriolis as _coriolis,
+  dragCoefficient as _dragCoefficient,
   dragLawSources,
   EARTH_RADIUS_M,
-  ekmanDepthEmpirical,
-  ekmanDepthTheoretical,
-  ekmanSurfaceSpeed,
+  ekmanDepthEmpirical as _ekmanDepthEmpirical,
+  ekmanDepthTheoretical as _ekmanDepthTheoretical,
+  ekmanSurfaceSpeed as _ekmanSurfaceSpeed,
   KAPPA,
   OMEGA,
-  u10Drag,
-  u10Log,
-  u10Power,
+  u10Drag as _u10Drag,
+  u10Log as _u10Log,
+  u10Power as _u10Power,
 } from "./physics";
+
+// Module-level copies: hot loops then call plain locals rather than going through import bindings.
+const { PASS, NOT_EVALUATED, SUSPECT, MISSING } = FLAG;
+const worseDerivedFlag = _worseDerivedFlag;
+const airDensity = _airDensity;
+const coriolis = _coriolis;
+const dragCoefficient = _dragCoefficient;
+const ekmanDepthEmpirical = _ekmanDepthEmpirical;
+const ekmanDepthTheoretical = _ekmanDepthTheoretical;
+const ekmanSurfaceSpeed = _ekmanSurfaceSpeed;
+const u10Drag = _u10Drag;
+const u10Log = _u10Log;
+const u10Power = _u10Power;
 
 /** Facts about a deployment that the diagnostics need besides the data. */
 export interface DeploymentContext {
@@ -97,6 +109,12 @@ export interface DiagnosticsInput {
   drift?: { u: Float64Array; v: Float64Array; speed: Float64Array; flag: Uint8Array };
 }
 
+/**
+ * Reusable output storage for `computeDiagnostics`: with a pool, results are views that stay valid only until the
+ * next call with the same pool (saves allocation when streaming).
+ */
+export type DiagnosticsPool = Map<string, { v: Float64Array; f: Uint8Array }>;
+
 export interface DiagnosticsOutput {
   values: Partial<Record<DerivedVariable, Float64Array>>;
   flags: Partial<Record<DerivedVariable, Uint8Array>>;
@@ -110,13 +128,26 @@ const RAD = Math.PI / 180;
  * Outputs appear only when their inputs exist in the block. Cost O(n), with a short fixed iteration per record
  * for the iterative neutral wind (and for S88).
  */
-export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings, ctx: DeploymentContext): DiagnosticsOutput {
+export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings, ctx: DeploymentContext, pool?: DiagnosticsPool): DiagnosticsOutput {
   const { n, values: V, flags: F } = input;
   const d = settings.diagnostics;
   const out: DiagnosticsOutput = { values: {}, flags: {} };
-  const mk = (name: DerivedVariable) => {
-    const v = new Float64Array(n);
-    const f = new Uint8Array(n);
+  // Pairs of components share one flag array: they always carry the same flag.
+  const mk = (name: DerivedVariable, sharedFlags?: Uint8Array) => {
+    let v: Float64Array;
+    let f: Uint8Array;
+    if (pool) {
+      let e = pool.get(name);
+      if (!e || e.v.length < n) {
+        e = { v: new Float64Array(n), f: new Uint8Array(n) };
+        pool.set(name, e);
+      }
+      v = e.v.subarray(0, n);
+      f = sharedFlags ?? e.f.subarray(0, n);
+    } else {
+      v = new Float64Array(n);
+      f = sharedFlags ?? new Uint8Array(n);
+    }
     out.values[name] = v;
     out.flags[name] = f;
     return [v, f] as const;
@@ -133,10 +164,10 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
 
   if (hasLat) {
     const [fv, ff] = mk("coriolis_parameter");
+    const fFixed = coriolis(latFixed);
     for (let i = 0; i < n; i++) {
-      const la = lat ? lat[i]! : latFixed;
-      fv[i] = coriolis(la);
-      ff[i] = latF ? latF[i]! : FLAG.PASS;
+      fv[i] = lat ? coriolis(lat[i]!) : fFixed;
+      ff[i] = latF ? latF[i]! : PASS;
     }
   }
 
@@ -161,7 +192,7 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
   const tAirF = F.air_temperature;
   const [u10, u10F] = mk("wind_speed_10m_neutral");
   const [ue10, ue10F] = mk("eastward_wind_10m_neutral");
-  const [vn10, vn10F] = mk("northward_wind_10m_neutral");
+  const [vn10, vn10F] = mk("northward_wind_10m_neutral", ue10F);
   const [cd, cdF] = mk("surface_drag_coefficient_for_momentum_in_air");
   for (let i = 0; i < n; i++) {
     const u = wu[i]!;
@@ -185,7 +216,7 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
   const [rhoA, rhoAF] = mk("air_density");
   if (d.airDensity.method === "fixed") {
     rhoA.fill(d.airDensity.value);
-    rhoAF.fill(FLAG.PASS);
+    rhoAF.fill(PASS);
   } else {
     const p = V.air_pressure ?? V.air_pressure_at_mean_sea_level;
     const pF = F.air_pressure ?? F.air_pressure_at_mean_sea_level;
@@ -194,7 +225,7 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
     for (let i = 0; i < n; i++) {
       if (!p || !tAir) {
         rhoA[i] = NaN;
-        rhoAF[i] = FLAG.MISSING;
+        rhoAF[i] = MISSING;
         continue;
       }
       rhoA[i] = airDensity(p[i]!, tAir[i]!, rh ? rh[i]! : 0);
@@ -205,7 +236,7 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
   }
 
   const [tx, txF] = mk("surface_downward_eastward_stress");
-  const [ty, tyF] = mk("surface_downward_northward_stress");
+  const [ty, tyF] = mk("surface_downward_northward_stress", txF);
   const [tm, tmF] = mk("magnitude_of_surface_downward_stress");
   for (let i = 0; i < n; i++) {
     const k = rhoA[i]! * cd[i]! * u10[i]!;
@@ -221,21 +252,26 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
 
   if (hasLat) {
     const [eu, euF] = mk("ekman_transport_eastward");
-    const [ev, evF] = mk("ekman_transport_northward");
+    const [ev, evF] = mk("ekman_transport_northward", euF);
     const [de, deF] = mk("ekman_depth_empirical");
     const [dt, dtF] = mk("ekman_depth_theoretical");
     const [su, suF] = mk("eastward_sea_water_velocity_due_to_ekman_drift");
-    const [sv, svF] = mk("northward_sea_water_velocity_due_to_ekman_drift");
+    const [sv, svF] = mk("northward_sea_water_velocity_due_to_ekman_drift", suF);
     const coast = ctx.coastlineDeg;
-    const up = coast !== undefined ? mk("coastal_upwelling_index") : undefined;
+    const up = coast !== undefined ? mk("coastal_upwelling_index", euF) : undefined;
     const sinO = coast !== undefined ? Math.sin(coast * RAD) : 0;
     const cosO = coast !== undefined ? Math.cos(coast * RAD) : 0;
+    const fc = out.values.coriolis_parameter!;
+    // Terms that depend on latitude alone, computed once when the position is fixed.
+    const dtFixed = ekmanDepthTheoretical(az, coriolis(latFixed));
+    const sinFixed = Math.sqrt(Math.sin(Math.abs(latFixed) * RAD));
+    const sqfFixed = Math.sqrt(Math.abs(coriolis(latFixed)) * az);
     for (let i = 0; i < n; i++) {
       const la = lat ? lat[i]! : latFixed;
-      const lf = latF ? latF[i]! : FLAG.PASS;
+      const lf = latF ? latF[i]! : PASS;
       if (!(Math.abs(la) >= cutoff)) {
         // Near the equator (or with no usable latitude) f-divided quantities are not evaluated: NaN, flag 2.
-        const mf = Number.isNaN(la) ? FLAG.MISSING : FLAG.NOT_EVALUATED;
+        const mf = Number.isNaN(la) ? MISSING : NOT_EVALUATED;
         eu[i] = ev[i] = de[i] = dt[i] = su[i] = sv[i] = NaN;
         euF[i] = evF[i] = deF[i] = dtF[i] = suF[i] = svF[i] = mf;
         if (up) {
@@ -244,7 +280,7 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
         }
         continue;
       }
-      const f = coriolis(la);
+      const f = fc[i]!;
       const rf = rho * f;
       const vecF = worseDerivedFlag(txF[i]!, lf);
       const ueI = ty[i]! / rf;
@@ -252,12 +288,12 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
       eu[i] = ueI;
       ev[i] = veI;
       euF[i] = evF[i] = vecF;
-      de[i] = ekmanDepthEmpirical(u10[i]!, la, d.ekmanDepthCoefficient);
+      de[i] = lat ? ekmanDepthEmpirical(u10[i]!, la, d.ekmanDepthCoefficient) : (d.ekmanDepthCoefficient * u10[i]!) / sinFixed;
       deF[i] = worseDerivedFlag(u10F[i]!, lf);
-      dt[i] = ekmanDepthTheoretical(az, f);
+      dt[i] = lat ? ekmanDepthTheoretical(az, f) : dtFixed;
       dtF[i] = lf;
       // Surface current: 45° clockwise of the stress in the north, anticlockwise in the south (sign of f).
-      const v0 = ekmanSurfaceSpeed(tm[i]!, f, az, rho);
+      const v0 = lat ? ekmanSurfaceSpeed(tm[i]!, f, az, rho) : tm[i]! / (rho * sqfFixed);
       const m = tm[i]!;
       if (m > 0) {
         const c = Math.SQRT1_2;
@@ -292,14 +328,17 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
     const [ang, angF] = mk("current_wind_angle");
     const [rat, ratF] = mk("current_wind_ratio");
     for (let i = 0; i < n; i++) {
-      const a = toBearing(cu[i]!, cv[i]!);
-      const b = toBearing(wu[i]!, wv[i]!);
-      ang[i] = wrap180(a - b);
-      const cs = Math.sqrt(cu[i]! * cu[i]! + cv[i]! * cv[i]!);
+      // Heading of the current minus heading of the wind, as one atan2 of cross and dot products.
+      const uc = cu[i]!, vc = cv[i]!, uw = wu[i]!, vw = wv[i]!;
+      const cs = Math.sqrt(uc * uc + vc * vc);
+      const ws = uw * uw + vw * vw;
+      let dA = cs > 0 && ws > 0 ? Math.atan2(uc * vw - vc * uw, vc * vw + uc * uw) / RAD : NaN;
+      if (dA === -180) dA = 180;
+      ang[i] = dA;
       rat[i] = u10[i]! > 0 ? cs / u10[i]! : NaN;
       const fl = worseDerivedFlag(worseDerivedFlag(cuF[i]!, cvF[i]!), ue10F[i]!);
-      angF[i] = Number.isNaN(ang[i]!) && fl < FLAG.SUSPECT ? FLAG.NOT_EVALUATED : fl;
-      ratF[i] = Number.isNaN(rat[i]!) && fl < FLAG.SUSPECT ? FLAG.NOT_EVALUATED : fl;
+      angF[i] = Number.isNaN(ang[i]!) && fl < SUSPECT ? NOT_EVALUATED : fl;
+      ratF[i] = Number.isNaN(rat[i]!) && fl < SUSPECT ? NOT_EVALUATED : fl;
     }
   }
   return out;

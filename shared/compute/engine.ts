@@ -1,11 +1,27 @@
 import type { QcSettings, VariableQc } from "../schemas/qc-settings";
 import { measuredVariables, type DerivedVariable, type MeasuredVariable } from "../vocabulary";
 import type { RecordChunk } from "./canonical";
-import { buildProvenance, computeDiagnostics, type DeploymentContext, type Provenance } from "./diagnostics";
-import { fromBearing, windU, windV, currentU, currentV, wrap180 } from "./directions";
-import { FLAG, TEST, aggregateFlag, worseDerivedFlag } from "./flags";
-import { haversine, fixVelocity } from "./geodesy";
-import { daysFromCivil } from "./canonical";
+import { buildProvenance, computeDiagnostics as _computeDiagnostics, type DeploymentContext, type DiagnosticsPool, type Provenance } from "./diagnostics";
+import { fromBearing as _fromBearing, windU as _windU, windV as _windV, currentU as _currentU, currentV as _currentV, wrap180 as _wrap180 } from "./directions";
+import { FLAG, TEST, aggregateFlag as _aggregateFlag, worseDerivedFlag as _worseDerivedFlag } from "./flags";
+import { haversine as _haversine, fixVelocity as _fixVelocity } from "./geodesy";
+import { daysFromCivil as _daysFromCivil } from "./canonical";
+
+// Module-level copies: hot loops then call plain locals rather than going through import bindings.
+const { PASS, NOT_EVALUATED, SUSPECT, FAIL, MISSING } = FLAG;
+const { GAP: T_GAP, SYNTAX: T_SYNTAX, LOCATION: T_LOCATION, GROSS_RANGE: T_GROSS_RANGE, CLIMATOLOGY: T_CLIMATOLOGY, SPIKE: T_SPIKE, RATE_OF_CHANGE: T_RATE_OF_CHANGE, FLAT_LINE: T_FLAT_LINE, MULTI_VARIATE: T_MULTI_VARIATE, IMPLIED_SPEED: T_IMPLIED_SPEED } = TEST;
+const aggregateFlag = _aggregateFlag;
+const worseDerivedFlag = _worseDerivedFlag;
+const fromBearing = _fromBearing;
+const windU = _windU;
+const windV = _windV;
+const currentU = _currentU;
+const currentV = _currentV;
+const wrap180 = _wrap180;
+const haversine = _haversine;
+const fixVelocity = _fixVelocity;
+const daysFromCivil = _daysFromCivil;
+const computeDiagnostics = _computeDiagnostics;
 
 /**
  * The streaming QC + diagnostics engine. Feed canonical chunks in file order with `push`, then call `finish`.
@@ -125,7 +141,39 @@ function grow<T extends Float64Array | Uint8Array | Uint32Array | Int32Array>(a:
  * chunks will carry (e.g. `canonicalizer.variables`). Cost per record O(variables), plus O(window) memory per
  * variable and platform for the rate-of-change window.
  */
-export function createEngine(settings: QcSettings, ctx: DeploymentContext, inputVariables: readonly MeasuredVariable[]): Engine {
+export interface EngineOptions {
+  /**
+   * Reuse the arrays of returned blocks: each block is then valid only until the next `push`/`finish`. For
+   * streaming callers that write a block out before pushing more (saves allocation and garbage collection).
+   */
+  reuseBlocks?: boolean;
+}
+
+export function createEngine(settings: QcSettings, ctx: DeploymentContext, inputVariables: readonly MeasuredVariable[], options: EngineOptions = {}): Engine {
+  const reuse = options.reuseBlocks === true;
+  const diagPool: DiagnosticsPool | undefined = reuse ? new Map() : undefined;
+  const outPool = new Map<string, Float64Array | Uint8Array | Uint32Array | Int32Array>();
+  /** A copy of src[0..m) in a fresh array, or in a pooled one when reusing. */
+  const take = <T extends Float64Array | Uint8Array | Uint32Array | Int32Array>(key: string, src: T, m: number): T => {
+    if (!reuse) return src.slice(0, m) as T;
+    let a = outPool.get(key) as T | undefined;
+    if (!a || a.length < m) {
+      a = new (src.constructor as new (k: number) => T)(Math.max(m, 1024));
+      outPool.set(key, a);
+    }
+    const v = a.subarray(0, m) as T;
+    v.set(src.subarray(0, m) as never);
+    return v;
+  };
+  const fresh = <T extends Float64Array | Uint8Array | Uint32Array>(key: string, ctor: new (k: number) => T, m: number): T => {
+    if (!reuse) return new ctor(m);
+    let a = outPool.get(key) as T | undefined;
+    if (!a || a.length < m) {
+      a = new ctor(Math.max(m, 1024));
+      outPool.set(key, a);
+    }
+    return a.subarray(0, m) as T;
+  };
   const present = new Set(inputVariables);
   // Fill the other wind and current representation so QC and diagnostics see both.
   const fillWindUV = present.has("wind_speed") && present.has("wind_from_direction") && !(present.has("eastward_wind") && present.has("northward_wind"));
@@ -136,6 +184,16 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
   if (fillCurUV) present.add("eastward_sea_water_velocity").add("northward_sea_water_velocity");
   const vars = measuredVariables.filter((v) => present.has(v));
   const nv = vars.length;
+  // A variable the engine filled from another pair is not tested itself: it takes the worst flag of its sources.
+  const filledFrom: ([number, number] | null)[] = vars.map(() => null);
+  const setFilled = (a: MeasuredVariable, b: MeasuredVariable, s1: MeasuredVariable, s2: MeasuredVariable) => {
+    const src: [number, number] = [vars.indexOf(s1), vars.indexOf(s2)];
+    filledFrom[vars.indexOf(a)] = src;
+    filledFrom[vars.indexOf(b)] = src;
+  };
+  if (fillWindUV) setFilled("eastward_wind", "northward_wind", "wind_speed", "wind_from_direction");
+  if (fillWindSD) setFilled("wind_speed", "wind_from_direction", "eastward_wind", "northward_wind");
+  if (fillCurUV) setFilled("eastward_sea_water_velocity", "northward_sea_water_velocity", "sea_water_speed", "sea_water_velocity_to_direction");
   const qcs = vars.map((v) => settings.variables[v]);
   const hasPos = present.has("latitude") && present.has("longitude");
   const drifter = ctx.platformKind === "drifter" && hasPos;
@@ -214,8 +272,8 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
 
   function raise(f: Uint8Array, t: Uint32Array, i: number, flag: number, test: number) {
     if (flag > f[i]!) f[i] = flag;
-    if (flag === FLAG.SUSPECT) t[i]! |= SUSPECT_BIT(test);
-    else if (flag === FLAG.FAIL) t[i]! |= FAIL_BIT(test);
+    if (flag === SUSPECT) t[i]! |= SUSPECT_BIT(test);
+    else if (flag === FAIL) t[i]! |= FAIL_BIT(test);
   }
 
   function append(c: RecordChunk) {
@@ -273,22 +331,24 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
   function recordTests(from: number) {
     const lat = iLat >= 0 ? val[iLat]! : null;
     const lon = iLon >= 0 ? val[iLon]! : null;
+    let lastP = -1;
+    let lastSt: PlatformState = null as unknown as PlatformState;
     for (let i = from; i < n; i++) {
       const t = time[i]!;
       if (recordBadMask[i - from] || !Number.isFinite(t)) {
-        raise(recFlag, recTests, i, FLAG.FAIL, TEST.SYNTAX);
+        raise(recFlag, recTests, i, FAIL, T_SYNTAX);
         acc[i] = 0;
         continue;
       }
-      recFlag[i] = FLAG.PASS; // syntax ran and passed
-      const st = platformState(plat[i]!);
+      recFlag[i] = PASS; // syntax ran and passed
+      const st = plat[i] === lastP ? lastSt : ((lastP = plat[i]!), (lastSt = platformState(lastP)));
       const last = st.lastTime;
       if (last === last && t <= last) {
-        raise(recFlag, recTests, i, FLAG.FAIL, TEST.GAP);
+        raise(recFlag, recTests, i, FAIL, T_GAP);
         acc[i] = 0;
         continue;
       }
-      if (last === last && t - last > maxGap) raise(recFlag, recTests, i, timing.gapFlag, TEST.GAP);
+      if (last === last && t - last > maxGap) raise(recFlag, recTests, i, timing.gapFlag, T_GAP);
       st.lastTime = t;
       acc[i] = 1;
       if (lat && lon) {
@@ -296,11 +356,11 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
         const lo = lon[i]!;
         if (la === la && lo === lo) {
           if (Math.abs(la) > 90 || Math.abs(lo) > 180) {
-            raise(posFlag, posTests, i, FLAG.FAIL, TEST.LOCATION);
+            raise(posFlag, posTests, i, FAIL, T_LOCATION);
           } else {
-            let pf: number = FLAG.PASS;
-            if (watchR !== null && nomLat === nomLat && haversine(nomLat, nomLon, la, lo) > watchR) pf = FLAG.SUSPECT;
-            raise(posFlag, posTests, i, pf, TEST.LOCATION);
+            let pf: number = PASS;
+            if (watchR !== null && nomLat === nomLat && haversine(nomLat, nomLon, la, lo) > watchR) pf = SUSPECT;
+            raise(posFlag, posTests, i, pf, T_LOCATION);
             if (drifter) driftLeg(st, i, la, lo, t);
           }
         }
@@ -328,18 +388,18 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
   function resolveFix(st: PlatformState, k: number, nextLeg: number, nla: number, nlo: number, nt: number) {
     const prevLeg = st.prevLeg;
     const sq = settings.impliedSpeed;
-    let f: number = FLAG.PASS;
+    let f: number = PASS;
     if (prevLeg === prevLeg && nextLeg === nextLeg) {
       // The bad fix is the one whose legs are both fast.
       const slow = Math.min(prevLeg, nextLeg);
-      f = slow > sq.fail ? FLAG.FAIL : slow > sq.suspect ? FLAG.SUSPECT : FLAG.PASS;
+      f = slow > sq.fail ? FAIL : slow > sq.suspect ? SUSPECT : PASS;
     } else {
       // One leg only (series end): a fast leg cannot say which end is wrong, so at most suspect.
       const one = prevLeg === prevLeg ? prevLeg : nextLeg;
       if (one !== one) f = 0;
-      else f = one > sq.suspect ? FLAG.SUSPECT : FLAG.PASS;
+      else f = one > sq.suspect ? SUSPECT : PASS;
     }
-    if (f) raise(posFlag, posTests, k, f, TEST.IMPLIED_SPEED);
+    if (f) raise(posFlag, posTests, k, f, T_IMPLIED_SPEED);
     const hasPrev = st.prevTime === st.prevTime;
     const hasNext = nt === nt;
     let r: [number, number, number] = [NaN, NaN, NaN];
@@ -368,6 +428,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
 
   function variableTests(from: number) {
     for (let k = 0; k < nv; k++) {
+      if (filledFrom[k]) continue;
       const q = qcs[k];
       const X = val[k]!;
       const F = flg[k]!;
@@ -381,31 +442,34 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
       const spike = q?.spike ?? null;
       const roc = q?.rateOfChange ?? null;
       const flat = q?.flatLine ?? null;
+      // Records of one platform usually come in runs: look its state up only when the platform changes.
+      let lastP = -1;
+      let vs: VarState = null as unknown as VarState;
       for (let i = from; i < n; i++) {
         const x = X[i]!;
         const p = plat[i]!;
+        if (p !== lastP) {
+          vs = platformState(p).vars[k]!;
+          lastP = p;
+        }
         if (x !== x) {
-          if (B[i]) raise(F, T, i, FLAG.FAIL, TEST.SYNTAX);
+          if (B[i]) raise(F, T, i, FAIL, T_SYNTAX);
           // A gap in the values breaks the spike triple.
-          if (acc[i] && spike) {
-            const vs = platformState(p).vars[k]!;
-            vs.nPrev = 0;
-          }
+          if (acc[i] && spike) vs.nPrev = 0;
           continue;
         }
         if (sensor || user) {
-          raise(F, T, i, x < sMin || x > sMax ? FLAG.FAIL : x < uMin || x > uMax ? FLAG.SUSPECT : FLAG.PASS, TEST.GROSS_RANGE);
+          raise(F, T, i, x < sMin || x > sMax ? FAIL : x < uMin || x > uMax ? SUSPECT : PASS, T_GROSS_RANGE);
         }
         if (clim && time[i] === time[i]) {
           const m = monthOf(time[i]!);
-          raise(F, T, i, x < clim.min[m]! || x > clim.max[m]! ? FLAG.SUSPECT : FLAG.PASS, TEST.CLIMATOLOGY);
+          raise(F, T, i, x < clim.min[m]! || x > clim.max[m]! ? SUSPECT : PASS, T_CLIMATOLOGY);
         }
         if (!acc[i]) continue;
-        const vs = platformState(p).vars[k]!;
         if (spike) {
           if (vs.nPrev >= 2) {
             const d = Math.abs(vs.p1 - (vs.p2 + x) / 2);
-            raise(F, T, vs.p1Idx, d >= spike.fail ? FLAG.FAIL : d >= spike.suspect ? FLAG.SUSPECT : FLAG.PASS, TEST.SPIKE);
+            raise(F, T, vs.p1Idx, d >= spike.fail ? FAIL : d >= spike.suspect ? SUSPECT : PASS, T_SPIKE);
           }
           vs.p2 = vs.p1;
           vs.p1 = x;
@@ -429,7 +493,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
             const m = vs.rocSum / vs.rocSize;
             const varc = vs.rocSq / vs.rocSize - m * m;
             const sd = varc > 0 ? Math.sqrt(varc) : 0;
-            raise(F, T, i, Math.abs(x - vs.prev) > roc.n * sd ? FLAG.SUSPECT : FLAG.PASS, TEST.RATE_OF_CHANGE);
+            raise(F, T, i, Math.abs(x - vs.prev) > roc.n * sd ? SUSPECT : PASS, T_RATE_OF_CHANGE);
           }
           if (vs.rocSize === cap2) {
             // Grow the ring, unrolling it so the oldest value comes first.
@@ -465,7 +529,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
               if (Math.abs(vs.flat[pos]! - x) > flat.epsilon) break;
               c++;
             }
-            raise(F, T, i, c >= flat.failCount ? FLAG.FAIL : c >= flat.suspectCount ? FLAG.SUSPECT : FLAG.PASS, TEST.FLAT_LINE);
+            raise(F, T, i, c >= flat.failCount ? FAIL : c >= flat.suspectCount ? SUSPECT : PASS, T_FLAT_LINE);
           }
           vs.flat[vs.flatPos] = x;
           vs.flatPos = vs.flatPos + 1 === K ? 0 : vs.flatPos + 1;
@@ -483,22 +547,24 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
       for (let i = from; i < n; i++) {
         const g = G[i]!;
         const s = S[i]!;
-        if (g === g && s === s) raise(flg[iGust]!, tst[iGust]!, i, g < s ? FLAG.SUSPECT : FLAG.PASS, TEST.MULTI_VARIATE);
+        if (g === g && s === s) raise(flg[iGust]!, tst[iGust]!, i, g < s ? SUSPECT : PASS, T_MULTI_VARIATE);
       }
     }
     if (iWd >= 0) {
       const D = val[iWd]!;
       const F = flg[iWd]!;
       const T = tst[iWd]!;
+      let lastP = -1;
+      let lastSt: PlatformState = null as unknown as PlatformState;
       for (let i = from; i < n; i++) {
         const s = S[i]!;
         const d = D[i]!;
         if (s !== s || d !== d) continue;
         if (s < mv.calmSpeed) T[i]! |= CALM_BIT;
         if (!acc[i]) continue;
-        const st = platformState(plat[i]!);
+        const st = plat[i] === lastP ? lastSt : ((lastP = plat[i]!), (lastSt = platformState(lastP)));
         if (s < mv.lightSpeed && s >= mv.calmSpeed && st.lastDir === st.lastDir) {
-          raise(F, T, i, Math.abs(wrap180(d - st.lastDir)) > mv.maxDirectionStepDeg ? FLAG.SUSPECT : FLAG.PASS, TEST.MULTI_VARIATE);
+          raise(F, T, i, Math.abs(wrap180(d - st.lastDir)) > mv.maxDirectionStepDeg ? SUSPECT : PASS, T_MULTI_VARIATE);
         }
         st.lastDir = d;
       }
@@ -507,6 +573,15 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
 
   /** Marks the latest accepted record of each platform as pending (its spike/drifter verdict needs the next). */
   function updatePending(from: number) {
+    if (!hasPlatform) {
+      for (let i = n - 1; i >= from; i--) {
+        if (acc[i]) {
+          platformState(0).pending = i;
+          break;
+        }
+      }
+      return;
+    }
     for (let i = from; i < n; i++) if (acc[i]) platformState(plat[i]!).pending = i;
   }
 
@@ -515,25 +590,32 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
     const block: EngineBlock = {
       start: emitted,
       n: m,
-      time: time.slice(0, m),
-      platform: hasPlatform ? plat.slice(0, m) : null,
-      line: line.slice(0, m),
+      time: take("time", time, m),
+      platform: hasPlatform ? take("platform", plat, m) : null,
+      line: take("line", line, m),
       values: {},
       flags: {},
       tests: {},
       derived: {},
       derivedFlags: {},
     };
-    for (let k = 0; k < nv; k++) {
+    const order = vars.map((_, k) => k).sort((a, b) => (filledFrom[a] ? 1 : 0) - (filledFrom[b] ? 1 : 0));
+    for (const k of order) {
       const v = vars[k]!;
-      const X = val[k]!.slice(0, m);
-      const F = new Uint8Array(m);
-      const T = new Uint32Array(m);
+      const X = take(`v${k}`, val[k]!, m);
+      const F = fresh(`f${k}`, Uint8Array, m);
+      const T = fresh(`t${k}`, Uint32Array, m);
+      const counts = flagCounts[k]!;
       const W = flg[k]!;
       const TT = tst[k]!;
       const isPos = k === iLat || k === iLon;
       const isDir = k === iWd;
       const B = bad[k]!;
+      const src = filledFrom[k];
+      const FA = src ? block.flags[vars[src[0]]!]! : null;
+      const FB = src ? block.flags[vars[src[1]]!]! : null;
+      const TA = src ? block.tests[vars[src[0]]!]! : null;
+      const TB = src ? block.tests[vars[src[1]]!]! : null;
       for (let i = 0; i < m; i++) {
         let w = W[i]!;
         let word = TT[i]! | recTests[i]!;
@@ -542,10 +624,21 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
           if (posFlag[i]! > w) w = posFlag[i]!;
           word |= posTests[i]!;
         }
-        let a: number = aggregateFlag(w, X[i]! !== X[i]! && !B[i] && !(recFlag[i] === FLAG.FAIL && (recTests[i]! & FAIL_BIT(TEST.SYNTAX))));
-        if (isDir && word & CALM_BIT && a === FLAG.PASS) a = FLAG.NOT_EVALUATED;
+        const x = X[i]!;
+        let a: number;
+        if (FA) {
+          a = worseDerivedFlag(FA[i]!, FB![i]!);
+          word |= (TA![i]! | TB![i]!) & ~CALM_BIT;
+          if (x !== x) a = MISSING;
+          else if (W[i]! > 0) a = worseDerivedFlag(a, W[i]!);
+        } else {
+          a = aggregateFlag(w, x !== x && !B[i] && !(recTests[i]! & FAIL_BIT(T_SYNTAX)));
+        }
+        if (isDir && word & CALM_BIT && a === PASS) a = NOT_EVALUATED;
         F[i] = a;
         T[i] = word;
+        counts[a]++;
+        if (word & 0x03ff03ff) countTests(k, word);
       }
       block.values[v] = X;
       block.flags[v] = F;
@@ -553,12 +646,12 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
     }
     let drift: { u: Float64Array; v: Float64Array; speed: Float64Array; flag: Uint8Array } | undefined;
     if (drifter) {
-      const fl = new Uint8Array(m);
+      const fl = fresh("driftFlag", Uint8Array, m);
       const lf = block.flags.latitude!;
       const of = block.flags.longitude!;
-      const du = dU.slice(0, m);
-      for (let i = 0; i < m; i++) fl[i] = du[i] === du[i] ? worseDerivedFlag(lf[i]!, of[i]!) : FLAG.MISSING;
-      drift = { u: du, v: dV.slice(0, m), speed: dS.slice(0, m), flag: fl };
+      const du = take("dU", dU, m);
+      for (let i = 0; i < m; i++) fl[i] = du[i] === du[i] ? worseDerivedFlag(lf[i]!, of[i]!) : MISSING;
+      drift = { u: du, v: take("dV", dV, m), speed: take("dS", dS, m), flag: fl };
       block.derived.surface_eastward_sea_water_velocity = drift.u;
       block.derived.surface_northward_sea_water_velocity = drift.v;
       block.derived.platform_speed_wrt_ground = drift.speed;
@@ -566,7 +659,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
       block.derivedFlags.surface_northward_sea_water_velocity = fl;
       block.derivedFlags.platform_speed_wrt_ground = fl;
     }
-    const diag = computeDiagnostics({ n: m, values: block.values, flags: block.flags, drift }, settings, ctx);
+    const diag = computeDiagnostics({ n: m, values: block.values, flags: block.flags, drift }, settings, ctx, diagPool);
     Object.assign(block.derived, diag.values);
     Object.assign(block.derivedFlags, diag.flags);
     tally(block);
@@ -592,35 +685,57 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
     return block;
   }
 
+  // Summary counts, kept as typed arrays while streaming and turned into plain objects by summary().
+  const flagCounts = vars.map(() => new Float64Array(10));
+  const testCountArr = vars.map(() => new Float64Array(64));
+  const derivedCounts = new Map<string, Float64Array>();
+  const countTests = (k: number, word: number) => {
+    const c = testCountArr[k]!;
+    for (let t = 0; t < 10; t++) {
+      if (word & FAIL_BIT(t)) c[32 + t]++;
+      else if (word & SUSPECT_BIT(t)) c[t]++;
+    }
+  };
+
   function tally(b: EngineBlock) {
     summary.rows += b.n;
+    let lo = summary.timeMin;
+    let hi = summary.timeMax;
     for (let i = 0; i < b.n; i++) {
       const t = b.time[i]!;
-      if (t < summary.timeMin) summary.timeMin = t;
-      if (t > summary.timeMax) summary.timeMax = t;
+      if (t < lo) lo = t;
+      if (t > hi) hi = t;
     }
-    const count = (name: string, F: Uint8Array) => {
-      const c = (summary.flagCounts[name as MeasuredVariable] ??= new Array(10).fill(0));
-      for (let i = 0; i < F.length; i++) c[F[i]!]++;
-    };
-    for (const v of vars) {
-      count(v, b.flags[v]!);
-      const T = b.tests[v]!;
-      const tc = (summary.testCounts[v] ??= {});
-      let any = 0;
-      for (let i = 0; i < T.length; i++) any |= T[i]!;
-      if (!(any & 0x7fffffff)) continue;
-      for (const [name, t] of Object.entries(TEST)) {
-        if (!(any & (SUSPECT_BIT(t) | FAIL_BIT(t)))) continue;
-        const e = (tc[name] ??= [0, 0]);
-        for (let i = 0; i < T.length; i++) {
-          if (T[i]! & FAIL_BIT(t)) e[1]++;
-          else if (T[i]! & SUSPECT_BIT(t)) e[0]++;
-        }
+    summary.timeMin = lo;
+    summary.timeMax = hi;
+    // Component pairs share one flag array: count each array once.
+    const counted = new Map<Uint8Array, Uint32Array>();
+    for (const [k, F] of Object.entries(b.derivedFlags)) {
+      let c = derivedCounts.get(k);
+      if (!c) derivedCounts.set(k, (c = new Float64Array(10)));
+      let u = counted.get(F!);
+      if (!u) {
+        u = new Uint32Array(256);
+        for (let i = 0; i < F!.length; i++) u[F![i]!]++;
+        counted.set(F!, u);
       }
+      for (let j = 0; j < 10; j++) c[j] += u[j]!;
     }
-    for (const [k, F] of Object.entries(b.derivedFlags)) count(k, F!);
     summary.platforms = platforms.filter(Boolean).length;
+  }
+
+  function finalSummary(): RunSummary {
+    summary.flagCounts = {};
+    summary.testCounts = {};
+    vars.forEach((v, k) => {
+      summary.flagCounts[v] = Array.from(flagCounts[k]!);
+      const tc: Record<string, [number, number]> = {};
+      const c = testCountArr[k]!;
+      for (const [name, t] of Object.entries(TEST)) if (c[t]! || c[32 + t]!) tc[name] = [c[t]!, c[32 + t]!];
+      summary.testCounts[v] = tc;
+    });
+    for (const [k, c] of derivedCounts) summary.flagCounts[k as DerivedVariable] = Array.from(c);
+    return summary;
   }
 
   function boundary(): number {
@@ -673,7 +788,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
       }
       return emit(n);
     },
-    summary: () => summary,
+    summary: finalSummary,
   };
 }
 

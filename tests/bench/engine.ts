@@ -8,7 +8,7 @@ import { performance } from "node:perf_hooks";
 import Papa from "papaparse";
 import { columnMapSchema } from "../../shared/schemas/column-map";
 import { resolveQcSettings } from "../../shared/schemas/qc-settings";
-import { createCanonicalizer } from "../../shared/compute/canonical";
+import { createCanonicalizer, ENGINE_SLICE, sliceChunk } from "../../shared/compute/canonical";
 import { createEngine } from "../../shared/compute/engine";
 import { demoMooringColumnMap } from "../../shared/demo/generate";
 import type { BenchContext } from "./run";
@@ -23,6 +23,7 @@ export async function run(ctx: BenchContext) {
     settings.data,
     { platformKind: "mooring", latitude: ctx.mooringOptions.latitude, longitude: ctx.mooringOptions.longitude, windHeightM: 4, coastlineDeg: 270 },
     canon.variables,
+    { reuseBlocks: true },
   );
   let parseMs = 0;
   let convertMs = 0;
@@ -50,7 +51,7 @@ export async function run(ctx: BenchContext) {
     line += body.length;
     rows += chunk.n;
     t0 = performance.now();
-    emitted += engine.push(chunk).n;
+    for (let s = 0; s < chunk.n; s += ENGINE_SLICE) emitted += engine.push(sliceChunk(chunk, s, Math.min(chunk.n, s + ENGINE_SLICE))).n;
     engineMs += performance.now() - t0;
   };
   for await (const piece of createReadStream(path, { encoding: "utf8", highWaterMark: 8 << 20 })) {
