@@ -20,6 +20,9 @@ import { projectsApi } from "./routes/projects";
 import { curationApi, followApi } from "./routes/curation";
 import { notificationsApi } from "./routes/notifications";
 import { datasetReleasesApi, releaseActionsApi, releasesApi } from "./routes/releases";
+import { columnMapsApi } from "./routes/column-maps";
+import { datasetUploadsApi, uploadsApi } from "./routes/uploads";
+import { createTusMount } from "./uploads/tus";
 
 export interface AppOptions {
   /** Sign-in attempts per window per IP (defaults from env). */
@@ -77,6 +80,8 @@ export function createApp(options: AppOptions = {}): Express {
   // better-auth and (later) tus read the raw request stream, so they come before the JSON body parser.
   app.use(SENSITIVE_AUTH_PATHS, authRateLimit(options.authRateLimit ?? env.AUTH_RATE_LIMIT, env.AUTH_RATE_WINDOW_S));
   app.all("/api/auth/{*any}", toNodeHandler(auth));
+  // Resumable uploads (tus) read the raw body too; GET falls through to the JSON detail route.
+  app.all(["/api/uploads", "/api/uploads/{*any}"], createTusMount().handler);
 
   app.use(express.json({ limit: "1mb" }));
 
@@ -90,7 +95,7 @@ export function createApp(options: AppOptions = {}): Express {
     }
   }) as RequestHandler);
 
-  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi]) {
+  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi, datasetUploadsApi, uploadsApi, columnMapsApi]) {
     app.use(api.base, api.router);
   }
   app.use("/api", notFoundHandler);
