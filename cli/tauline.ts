@@ -2,6 +2,11 @@ import { Command, InvalidArgumentError } from "commander";
 import { InputError } from "./lib/read-csv";
 import { runCheck } from "./check";
 
+// A closed pipe (e.g. output piped into `head`) is not an error worth a stack trace.
+process.stdout.on("error", (e: NodeJS.ErrnoException) => {
+  if (e.code === "EPIPE") process.exit(0);
+});
+
 const num = (v: string) => {
   const x = Number(v);
   if (v.trim() === "" || !Number.isFinite(x)) throw new InvalidArgumentError("expected a number");

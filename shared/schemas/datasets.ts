@@ -49,6 +49,7 @@ export const datasetSchema = z.object({
   projectName: z.string(),
   deploymentId: idSchema.nullable(),
   deploymentName: z.string().nullable(),
+  platformId: idSchema.nullable(),
   platformName: z.string().nullable(),
   platformKind: z.enum(platformKinds).nullable(),
   title: z.string(),
@@ -81,3 +82,15 @@ export const catalogueQuerySchema = z.object({
   q: z.string().trim().max(200, "Search text is at most 200 characters").optional(),
   kind: z.enum(platformKinds, { message: "kind must be mooring or drifter" }).optional(),
 });
+
+/** A version waiting for a curator's decision. */
+export const reviewQueueItemSchema = z.object({
+  versionId: idSchema,
+  datasetId: idSchema,
+  datasetTitle: z.string(),
+  projectName: z.string(),
+  number: z.number(),
+  submittedAt: z.string(),
+  submittedBy: z.string(),
+});
+export type ReviewQueueItem = z.infer<typeof reviewQueueItemSchema>;

@@ -89,6 +89,7 @@ export function createScanner(dialect: Dialect, header: string[] | null, opts: S
   let pendingCR = false;
   const longLines = new Tally();
   const nul = new Tally();
+  const notUtf8 = new Tally();
   const ragged = new Tally();
   const timeBad = new Tally();
   const zones = new Map<string, Tally>();
@@ -106,6 +107,8 @@ export function createScanner(dialect: Dialect, header: string[] | null, opts: S
       nul.add(lineNo);
       return;
     }
+    // The decoder turns bytes that are not UTF-8 into U+FFFD.
+    if (line.indexOf("\uFFFD") >= 0) notUtf8.add(lineNo);
     if (lineNo < firstData || line.trim() === "") return;
     dataLines++;
     const fields = splitLine(line, dialect.delimiter);
@@ -203,6 +206,7 @@ export function createScanner(dialect: Dialect, header: string[] | null, opts: S
         });
       }
       if (nul.count) f.push({ severity: "error", code: "nul_byte", count: nul.count, lines: nul.lines, message: `${fmt(nul.count)} line${nul.count > 1 ? "s hold" : " holds"} NUL bytes${at(nul)}: binary data inside a text file. Export the data again as CSV or text.` });
+      if (notUtf8.count) f.push({ severity: "error", code: "not_utf8", count: notUtf8.count, lines: notUtf8.lines, message: `${fmt(notUtf8.count)} line${notUtf8.count > 1 ? "s hold" : " holds"} bytes that are not UTF-8${at(notUtf8)}. Save or export the file as UTF-8 text and upload it again.` });
       if (dataLines === 0 && !longLines.count) {
         f.push({ severity: "error", code: "no_data", count: 0, lines: [], message: dialect.headerRow > 0 ? `The file has a header (line ${dialect.headerRow}) but no data lines after it.` : "The file has no data lines." });
       }
