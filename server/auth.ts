@@ -44,6 +44,11 @@ export const auth = betterAuth({
     sendOnSignIn: true,
     autoSignInAfterVerification: true,
     async sendVerificationEmail({ user, url }) {
+      // Whatever page asked for the mail (sign-up, or a sign-in refused for an unverified address),
+      // the link lands on the page that says the address is confirmed.
+      const link = new URL(url);
+      link.searchParams.set("callbackURL", "/verified");
+      url = link.toString();
       await sendMail(
         user.email,
         "Confirm your e-mail address for Tauline",

@@ -1,5 +1,5 @@
 import { and, asc, desc, eq, ilike, inArray, ne, or, sql } from "drizzle-orm";
-import type { CatalogueEntry, CreateDatasetInput, Dataset, UpdateDatasetInput, VersionSummary } from "@shared/schemas/datasets";
+import type { CatalogueEntry, CreateDatasetInput, Dataset, ReviewQueueItem, UpdateDatasetInput, VersionSummary } from "@shared/schemas/datasets";
 import type { platformKinds } from "@shared/schemas/platforms";
 import { db } from "../db/client";
 import { datasets, deployments, memberships, platforms, projects, user as users, versions } from "../db/schema";
@@ -15,6 +15,7 @@ const baseSelect = () =>
       d: datasets,
       projectName: projects.name,
       deploymentName: deployments.name,
+      platformId: platforms.id,
       platformName: platforms.name,
       platformKind: platforms.kind,
     })
@@ -50,6 +51,7 @@ function toDataset(r: BaseRow, vs: VersionSummary[], membersView: boolean): Data
     projectName: r.projectName,
     deploymentId: r.d.deploymentId,
     deploymentName: r.deploymentName,
+    platformId: r.platformId,
     platformName: r.platformName,
     platformKind: r.platformKind,
     title: r.d.title,
@@ -186,7 +188,7 @@ export async function listCatalogue(query: { q?: string; kind?: (typeof platform
 }
 
 /** Versions waiting for review in the caller's projects, excluding their own (four eyes). */
-export async function listReviewQueue(user: SessionUser) {
+export async function listReviewQueue(user: SessionUser): Promise<ReviewQueueItem[]> {
   const curated = user.isAdmin
     ? undefined
     : db.select({ id: memberships.projectId }).from(memberships).where(and(eq(memberships.userId, user.id), eq(memberships.role, "curator")));

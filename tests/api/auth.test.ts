@@ -32,8 +32,10 @@ describe("sign-up and e-mail verification", () => {
     expect(before.body.code).toBe("EMAIL_NOT_VERIFIED");
 
     const url = new URL(link);
+    expect(url.searchParams.get("callbackURL")).toBe("/verified");
     const verify = await request(testApp()).get(url.pathname + url.search);
-    expect([200, 302]).toContain(verify.status);
+    expect(verify.status).toBe(302);
+    expect(verify.headers.location).toBe("/verified");
 
     const after = await signInRaw(email, PASSWORD);
     expect(after.status).toBe(200);
