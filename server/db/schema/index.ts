@@ -4,3 +4,4 @@ export * from "./datasets";
 export * from "./uploads";
 export * from "./curation";
 export * from "./records";
+export * from "./annotations";
