@@ -5,3 +5,4 @@ export * from "./uploads";
 export * from "./curation";
 export * from "./records";
 export * from "./annotations";
+export * from "./tokens";
