@@ -23,6 +23,7 @@ import { datasetReleasesApi, releaseActionsApi, releasesApi } from "./routes/rel
 import { columnMapsApi } from "./routes/column-maps";
 import { datasetUploadsApi, uploadsApi } from "./routes/uploads";
 import { createTusMount } from "./uploads/tus";
+import { datasetVersionsApi, projectArrayApi, versionsApi } from "./routes/versions";
 
 export interface AppOptions {
   /** Sign-in attempts per window per IP (defaults from env). */
@@ -95,7 +96,7 @@ export function createApp(options: AppOptions = {}): Express {
     }
   }) as RequestHandler);
 
-  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi, datasetUploadsApi, uploadsApi, columnMapsApi]) {
+  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi, datasetUploadsApi, uploadsApi, columnMapsApi, datasetVersionsApi, versionsApi, projectArrayApi]) {
     app.use(api.base, api.router);
   }
   app.use("/api", notFoundHandler);

@@ -1,4 +1,7 @@
 import type PgBoss from "pg-boss";
+import { arrayDiagnosticsJob } from "./array-diagnostics.job";
+import { buildVersionJob } from "./build-version.job";
+import { rebuildSummariesJob } from "./rebuild-summaries.job";
 
 /** A job the worker runs: a queue name, and a handler that is idempotent (safe to retry). */
 export interface JobDefinition {
@@ -7,5 +10,5 @@ export interface JobDefinition {
   register(boss: PgBoss): Promise<void>;
 }
 
-/** Every job the worker serves. Processing jobs (version builds, summaries, array diagnostics) register here. */
-export const jobs: JobDefinition[] = [];
+/** Every job the worker serves. */
+export const jobs: JobDefinition[] = [buildVersionJob, rebuildSummariesJob, arrayDiagnosticsJob];

@@ -5,3 +5,36 @@ import { env } from "../env";
 export function createQueue() {
   return new PgBoss({ connectionString: env.DATABASE_URL, schema: "pgboss" });
 }
+
+let sender: Promise<PgBoss> | undefined;
+const created = new Set<string>();
+
+/**
+ * A queue handle for processes that only send jobs (the API): no maintenance or scheduling of its own, started
+ * once per process. Creates a queue on first use, so the API can enqueue before any worker has started.
+ */
+export async function enqueue(name: string, data: object, options: PgBoss.SendOptions = {}): Promise<string | null> {
+  sender ??= (async () => {
+    const boss = new PgBoss({ connectionString: env.DATABASE_URL, schema: "pgboss", supervise: false, schedule: false, max: 2 });
+    boss.on("error", () => undefined);
+    await boss.start();
+    return boss;
+  })();
+  const boss = await sender.catch((e) => {
+    sender = undefined;
+    throw e;
+  });
+  if (!created.has(name)) {
+    await boss.createQueue(name);
+    created.add(name);
+  }
+  return boss.send(name, data, options);
+}
+
+/** Stops the sending handle (tests and graceful shutdown). */
+export async function stopSender() {
+  const s = sender;
+  sender = undefined;
+  created.clear();
+  if (s) await (await s).stop({ graceful: false, wait: true }).catch(() => undefined);
+}

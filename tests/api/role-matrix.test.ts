@@ -3,6 +3,8 @@ import { beforeAll, describe, expect, test } from "vitest";
 import { routeRules } from "../../server/lib/routes";
 import { addMembership, as, createTestUser, makeProjectWithRoles, testApp, type Role, type TestUser } from "../helpers/api";
 import { makeDataset, makeVersion } from "../helpers/curation";
+import { makeBuildVersion, makeMooringDataset, mooringMap, storeUpload } from "../helpers/pipeline";
+import { storeTestUpload } from "../helpers/uploads";
 
 /**
  * Every API route × every role, expected statuses in one table. A route the API declares without an
@@ -122,12 +124,48 @@ const matrix: Record<string, Case> = {
   "DELETE /api/datasets/:id/follow": { call: async (i) => ({ url: `/api/datasets/${await makeDataset(i.projectId)}/follow` }), expect: writeMembers },
   "GET /api/notifications": { call: () => ({ url: "/api/notifications" }), expect: signedIn },
   "POST /api/notifications/read": { call: () => ({ url: "/api/notifications/read", body: { all: true } }), expect: signedIn },
+  // Version builds (issue 5): a fresh dataset per call, since a dataset builds one version at a time.
+  "POST /api/datasets/:id/versions": {
+    call: async (i) => {
+      const { datasetId } = await makeMooringDataset(i.projectId);
+      const uploadId = await storeUpload(datasetId, i.users.contributor.id, "time,wspd\n2026-10-01T00:00:00Z,5\n");
+      return { url: `/api/datasets/${datasetId}/versions`, body: { uploadId, columnMap: mooringMap(), mode: "replace" } };
+    },
+    expect: createMembers,
+  },
+  "GET /api/versions/:id": { call: async (i) => ({ url: `/api/versions/${(await makeBuildVersion(i.projectId, i.users.contributor.id, "ready", "succeeded")).versionId}` }), expect: readMembers },
+  "GET /api/versions/:id/progress": {
+    call: async (i) => ({ url: `/api/versions/${(await makeBuildVersion(i.projectId, i.users.contributor.id, "ready", "succeeded")).versionId}/progress` }),
+    expect: readMembers,
+  },
+  "POST /api/versions/:id/cancel": {
+    call: async (i) => ({ url: `/api/versions/${(await makeBuildVersion(i.projectId, i.users.contributor.id, "processing", "queued")).versionId}/cancel`, body: {} }),
+    expect: writeMembers,
+  },
+  "POST /api/versions/:id/retry": {
+    call: async (i) => ({ url: `/api/versions/${(await makeBuildVersion(i.projectId, i.users.contributor.id, "failed", "failed")).versionId}/retry`, body: {} }),
+    expect: writeMembers,
+  },
+  "GET /api/projects/:id/array-diagnostics": { call: (i) => ({ url: `/api/projects/${i.projectId}/array-diagnostics` }), expect: readMembers },
   "GET /api/admin/users": { call: () => ({ url: "/api/admin/users" }), expect: adminOnly },
   "PATCH /api/admin/users/:id": {
     call: async () => ({ url: `/api/admin/users/${(await createTestUser()).id}`, body: { isAdmin: false } }),
     expect: adminOnly,
   },
   "GET /api/admin/mail": { call: () => ({ url: "/api/admin/mail" }), expect: adminOnly },
+  "GET /api/datasets/:id/uploads": { call: (i) => ({ url: `/api/datasets/${i.datasetId}/uploads` }), expect: readMembers },
+  "GET /api/uploads/:id": {
+    call: async (i) => ({ url: `/api/uploads/${await storeTestUpload(i.datasetId, i.users.contributor.id, "time,wspd,wdir\n2026-01-01T00:00:00Z,3.1,180\n")}` }),
+    expect: readMembers,
+  },
+  "GET /api/platforms/:id/column-maps": { call: (i) => ({ url: `/api/platforms/${i.platformId}/column-maps` }), expect: readMembers },
+  "POST /api/platforms/:id/column-maps": {
+    call: (i) => ({
+      url: `/api/platforms/${i.platformId}/column-maps`,
+      body: { map: { time: { columns: ["time"], zone: "UTC" }, columns: [{ column: "u", variable: "eastward_wind", unit: "m s-1" }, { column: "v", variable: "northward_wind", unit: "m s-1" }] }, note: `matrix ${u()}` },
+    }),
+    expect: createMembers,
+  },
 };
 
 let ids: Ids;

@@ -1,0 +1,114 @@
+import { z } from "zod";
+import { arrayDiagnostics } from "@shared/compute/array";
+import { idSchema } from "@shared/schemas/common";
+import { builtVersionStates } from "@shared/schemas/versions";
+import { pool } from "../db/client";
+import { logger } from "../lib/logger";
+import type { JobDefinition } from "./index";
+import { enqueue } from "./queue";
+
+/**
+ * Array diagnostics for a project's moorings: at each common hourly step where three or more moorings have a wind
+ * stress, the engine's least-squares plane fit gives wind-stress curl, Ekman pumping and Sverdrup transport
+ * (shared/compute/array.ts, DOMAIN §9). Inputs are each mooring's latest built version (hourly mean stress from its
+ * plot buckets; hours holding a failed value are left out) at the deployment's nominal position.
+ */
+export const ARRAY_DIAGNOSTICS = "array-diagnostics";
+const payloadSchema = z.object({ projectId: idSchema });
+export const ARRAY_STEP_S = 3600;
+
+export function enqueueArrayDiagnostics(projectId: string) {
+  return enqueue(ARRAY_DIAGNOSTICS, { projectId }, { retryLimit: 3, retryDelay: 5, singletonKey: projectId });
+}
+
+interface Input {
+  datasetId: string;
+  versionId: string;
+  versionNumber: number;
+  title: string;
+  latitude: number;
+  longitude: number;
+}
+
+/** Computes and stores the project's array series (idempotent: replaces the previous result). */
+export async function computeArrayDiagnostics(projectId: string): Promise<{ steps: number; note: string | null }> {
+  const { rows } = await pool.query(
+    `select distinct on (d.id) d.id as dataset_id, d.title, v.id as version_id, v.number, dp.latitude, dp.longitude
+       from datasets d
+       join deployments dp on dp.id = d.deployment_id
+       join platforms p on p.id = dp.platform_id and p.kind = 'mooring'
+       join versions v on v.dataset_id = d.id and v.state = any($2::version_state[])
+      where d.project_id = $1 and dp.latitude is not null and dp.longitude is not null
+      order by d.id, v.number desc`,
+    [projectId, builtVersionStates],
+  );
+  const inputs: Input[] = rows.map((r) => ({ datasetId: r.dataset_id, versionId: r.version_id, versionNumber: r.number, title: r.title, latitude: r.latitude, longitude: r.longitude }));
+  // hour → per input [taux, tauy]
+  const byStep = new Map<number, (readonly [number, number] | undefined)[]>();
+  for (const [k, inp] of inputs.entries()) {
+    const s = await pool.query(
+      `select variable, t0, mean, worst_flag from plot_series where version_id = $1 and platform = '' and step_s = $2
+        and variable in ('surface_downward_eastward_stress', 'surface_downward_northward_stress')`,
+      [inp.versionId, ARRAY_STEP_S],
+    );
+    const ex = s.rows.find((r) => r.variable === "surface_downward_eastward_stress");
+    const ny = s.rows.find((r) => r.variable === "surface_downward_northward_stress");
+    if (!ex || !ny) continue;
+    for (let j = 0; j < ex.mean.length; j++) {
+      const x = Number(ex.mean[j]);
+      const y = Number(ny.mean[j]);
+      if (!Number.isFinite(x) || !Number.isFinite(y) || ex.worst_flag[j] === 4 || ny.worst_flag[j] === 4) continue;
+      const t = ex.t0 + j * ARRAY_STEP_S;
+      let row = byStep.get(t);
+      if (!row) byStep.set(t, (row = new Array(inputs.length).fill(undefined)));
+      row[k] = [x, y];
+    }
+  }
+  const steps = [...byStep.entries()].filter(([, r]) => r.filter(Boolean).length >= 3).sort((a, b) => a[0] - b[0]);
+  let note: string | null = null;
+  if (inputs.length < 3) note = `Array diagnostics need three or more moorings with a position and a built version; this project has ${inputs.length}.`;
+  else if (!steps.length) note = "The moorings' records do not overlap in time (no hour with stress from three or more moorings).";
+  const t0 = steps.length ? steps[0]![0] : 0;
+  const len = steps.length ? (steps[steps.length - 1]![0] - t0) / ARRAY_STEP_S + 1 : 0;
+  const curl = new Array<number>(len).fill(NaN);
+  const pumping = new Array<number>(len).fill(NaN);
+  const sverdrup = new Array<number>(len).fill(NaN);
+  const used = new Array<number>(len).fill(0);
+  for (const [t, r] of steps) {
+    const idx = r.map((x, i) => (x ? i : -1)).filter((i) => i >= 0);
+    const res = arrayDiagnostics({
+      lat: idx.map((i) => inputs[i]!.latitude),
+      lon: idx.map((i) => inputs[i]!.longitude),
+      taux: idx.map((i) => r[i]![0]),
+      tauy: idx.map((i) => r[i]![1]),
+    });
+    const j = (t - t0) / ARRAY_STEP_S;
+    used[j] = res.used;
+    if (res.ok) {
+      curl[j] = res.curl;
+      pumping[j] = res.ekmanPumping;
+      sverdrup[j] = res.sverdrup;
+    } else if (!note) note = `Some steps were not computed: ${res.reason}.`;
+  }
+  await pool.query(
+    `insert into array_diagnostic_series (project_id, computed_at, inputs, step_s, t0, curl, ekman_pumping, sverdrup, used, note)
+     values ($1, now(), $2, $3, $4, $5, $6, $7, $8, $9)
+     on conflict (project_id) do update set computed_at = now(), inputs = excluded.inputs, step_s = excluded.step_s, t0 = excluded.t0,
+       curl = excluded.curl, ekman_pumping = excluded.ekman_pumping, sverdrup = excluded.sverdrup, used = excluded.used, note = excluded.note`,
+    [projectId, JSON.stringify(inputs), ARRAY_STEP_S, t0, curl, pumping, sverdrup, used, note],
+  );
+  return { steps: steps.length, note };
+}
+
+export const arrayDiagnosticsJob: JobDefinition = {
+  name: ARRAY_DIAGNOSTICS,
+  async register(boss) {
+    await boss.work<{ projectId: string }>(ARRAY_DIAGNOSTICS, { pollingIntervalSeconds: 1, batchSize: 1 }, async ([job]) => {
+      const { projectId } = payloadSchema.parse(job!.data);
+      logger.info({ projectId }, `[${ARRAY_DIAGNOSTICS}][${job!.id}] start`);
+      const r = await computeArrayDiagnostics(projectId);
+      logger.info({ projectId, ...r }, `[${ARRAY_DIAGNOSTICS}][${job!.id}] finish`);
+      return r;
+    });
+  },
+};

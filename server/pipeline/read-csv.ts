@@ -1,0 +1,138 @@
+import { createReadStream } from "node:fs";
+import Papa from "papaparse";
+import type { ColumnMap } from "../../shared/schemas/column-map";
+import { createCanonicalizer, type Canonicalizer, type ParseWarning, type RecordChunk } from "../../shared/compute/canonical";
+
+/**
+ * Streaming ingest shared by the worker (server/pipeline/build.ts) and `tauline check` (cli/check.ts): a delimited
+ * file → papaparse in pieces of whole lines → the pure column-map canonicalizer → canonical chunks.
+ */
+
+/** A readable problem with an input file, with the line and column when known. */
+export class InputError extends Error {
+  constructor(
+    message: string,
+    readonly line?: number,
+    readonly column?: string,
+  ) {
+    super(message);
+  }
+}
+
+export interface CanonicalStream {
+  canonicalizer: Canonicalizer;
+  chunks: AsyncGenerator<{ chunk: RecordChunk; warnings: ParseWarning[] }>;
+}
+
+export interface StreamOptions {
+  /** Bytes per read (default 4 MiB): the size of the pieces handed to the parser. */
+  chunkBytes?: number;
+  /** How the file is named in messages (default: its path). The server passes the upload's original name. */
+  label?: string;
+  /** Called with the byte count read so far (for progress). */
+  onBytes?: (bytes: number) => void;
+}
+
+/**
+ * Streams a delimited file through a column map into canonical chunks (I/O side of the ingest; the conversion
+ * itself is the pure `createCanonicalizer`). Assumes one record per line (no line breaks inside quoted fields).
+ * Throws InputError for an unreadable file or a header that does not match the map.
+ */
+export async function openCanonicalStream(path: string, map: ColumnMap, opts: StreamOptions | number = {}): Promise<CanonicalStream> {
+  const o: StreamOptions = typeof opts === "number" ? { chunkBytes: opts } : opts;
+  const label = o.label ?? path;
+  const canonicalizer = createCanonicalizer(map);
+  // Read bytes, not text: the byte count drives progress, and decoding a piece at a line break is always safe in UTF-8.
+  const stream = createReadStream(path, { highWaterMark: o.chunkBytes ?? 4 << 20 });
+  const it = stream[Symbol.asyncIterator]() as AsyncIterator<Buffer>;
+  const decoder = new TextDecoder("utf-8");
+  let bytes = 0;
+  let carry = "";
+  let line = 1;
+  let done = false;
+  const parse = (text: string) => Papa.parse<string[]>(text, { delimiter: map.delimiter }).data;
+
+  /** Next piece of text holding whole lines, or null at the end. */
+  const nextPiece = async (): Promise<string | null> => {
+    while (!done) {
+      let r: IteratorResult<Buffer>;
+      try {
+        r = await it.next();
+      } catch (e) {
+        throw new InputError(`cannot read ${label}: ${(e as NodeJS.ErrnoException).code ?? (e as Error).message}`);
+      }
+      if (r.done) {
+        done = true;
+        carry += decoder.decode();
+        break;
+      }
+      bytes += r.value.length;
+      o.onBytes?.(bytes);
+      carry += decoder.decode(r.value, { stream: true });
+      const cut = carry.lastIndexOf("\n");
+      if (cut >= 0) {
+        const piece = carry.slice(0, cut + 1);
+        carry = carry.slice(cut + 1);
+        return piece;
+      }
+    }
+    if (carry.length > 0) {
+      const piece = carry;
+      carry = "";
+      return piece;
+    }
+    return null;
+  };
+
+  // Header and skipped lines.
+  let pending: string[][] = [];
+  const takeLines = async (count: number): Promise<string[][]> => {
+    while (pending.length < count) {
+      const piece = await nextPiece();
+      if (piece === null) break;
+      const rows = parse(piece);
+      if (piece.endsWith("\n") && rows.length && rows[rows.length - 1]!.length === 1 && rows[rows.length - 1]![0] === "") rows.pop();
+      pending = pending.concat(rows);
+    }
+    const out = pending.slice(0, count);
+    pending = pending.slice(count);
+    return out;
+  };
+
+  let header: string[] | null = null;
+  if (map.headerRow > 0) {
+    const head = await takeLines(map.headerRow + map.skipRows);
+    if (head.length < map.headerRow) throw new InputError(`${label}: the file ends before its header row (line ${map.headerRow})`, map.headerRow);
+    header = head[map.headerRow - 1]!;
+    line = map.headerRow + map.skipRows + 1;
+  } else if (map.skipRows > 0) {
+    await takeLines(map.skipRows);
+    line = map.skipRows + 1;
+  }
+  const bound = canonicalizer.bindHeader(header, map.headerRow);
+  if (!bound.ok) throw new InputError(`${label}: ${bound.error}`, map.headerRow || undefined);
+
+  async function* chunks() {
+    try {
+      if (pending.length) {
+        const rows = pending;
+        pending = [];
+        const r = canonicalizer.convert(rows, line);
+        line += rows.length;
+        yield r;
+      }
+      for (;;) {
+        const piece = await nextPiece();
+        if (piece === null) return;
+        const rows = parse(piece);
+        if (piece.endsWith("\n") && rows.length && rows[rows.length - 1]!.length === 1 && rows[rows.length - 1]![0] === "") rows.pop();
+        const r = canonicalizer.convert(rows, line);
+        line += rows.length;
+        yield r;
+      }
+    } finally {
+      stream.destroy();
+    }
+  }
+  return { canonicalizer, chunks: chunks() };
+}

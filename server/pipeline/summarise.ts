@@ -1,0 +1,249 @@
+import type { VariableStats, VersionSummaryData } from "@shared/schemas/versions";
+
+/**
+ * Streaming summaries of a version's rows, fed in time order per platform: per-variable statistics and flag counts,
+ * time coverage and gaps, and pre-aggregated plot buckets (per minute and per hour). O(rows × variables), memory
+ * O(buckets × variables). Statistics use the values flagged 1 (pass) or 2 (not evaluated); NaN values are skipped.
+ */
+
+export const PLOT_STEPS_S = [60, 3600] as const;
+
+interface Buckets {
+  step: number;
+  t0: number;
+  len: number;
+  min: Float64Array[];
+  max: Float64Array[];
+  sum: Float64Array[];
+  n: Float64Array[];
+  worst: Uint8Array[];
+}
+
+interface PlatformAcc {
+  rows: number;
+  first: number;
+  last: number;
+  buckets: Buckets[];
+}
+
+export interface PlotSeriesRow {
+  platform: string;
+  variable: string;
+  stepS: number;
+  t0: number;
+  min: number[];
+  max: number[];
+  mean: number[];
+  n: number[];
+  worstFlag: number[];
+}
+
+export interface Gap {
+  platform: string;
+  from: number;
+  to: number;
+}
+
+export function createSummariser(variables: readonly string[], units: readonly string[], intervalS: number | null, gapFactor: number) {
+  const nv = variables.length;
+  const platforms = new Map<string, PlatformAcc>();
+  const flagCounts = variables.map(() => new Float64Array(10));
+  const count = new Float64Array(nv);
+  const mean = new Float64Array(nv);
+  const m2 = new Float64Array(nv);
+  const min = new Float64Array(nv).fill(Infinity);
+  const max = new Float64Array(nv).fill(-Infinity);
+  const maxGap = intervalS ? intervalS * gapFactor : Infinity;
+  let gaps: Gap[] = [];
+  let gapCount = 0;
+
+  const newBuckets = (step: number, t: number): Buckets => ({
+    step,
+    t0: Math.floor(t / step) * step,
+    len: 0,
+    min: variables.map(() => new Float64Array(0)),
+    max: variables.map(() => new Float64Array(0)),
+    sum: variables.map(() => new Float64Array(0)),
+    n: variables.map(() => new Float64Array(0)),
+    worst: variables.map(() => new Uint8Array(0)),
+  });
+  const growTo = (b: Buckets, need: number) => {
+    if (need <= b.min[0]!.length || nv === 0) {
+      if (need > b.len) b.len = need;
+      return;
+    }
+    const cap = Math.max(need, b.min[0]!.length * 2, 256);
+    const g = <T extends Float64Array | Uint8Array>(a: T, fill: number): T => {
+      const x = new (a.constructor as new (n: number) => T)(cap);
+      x.fill(fill as never);
+      x.set(a as never);
+      return x;
+    };
+    for (let v = 0; v < nv; v++) {
+      b.min[v] = g(b.min[v]!, Infinity);
+      b.max[v] = g(b.max[v]!, -Infinity);
+      b.sum[v] = g(b.sum[v]!, 0);
+      b.n[v] = g(b.n[v]!, 0);
+      b.worst[v] = g(b.worst[v]!, 0);
+    }
+    b.len = need;
+  };
+  const noteGap = (g: Gap) => {
+    gapCount++;
+    if (gaps.length < 50) gaps.push(g);
+    else {
+      let k = 0;
+      for (let j = 1; j < gaps.length; j++) if (gaps[j]!.to - gaps[j]!.from < gaps[k]!.to - gaps[k]!.from) k = j;
+      if (g.to - g.from > gaps[k]!.to - gaps[k]!.from) gaps[k] = g;
+    }
+  };
+
+  return {
+    /**
+     * Adds rows [from, to) of one platform; `values[v]`/`flags[v]` follow `variables` (null = not in this build:
+     * counted as missing). Rows must come in increasing time per platform.
+     */
+    add(platform: string, time: Float64Array, values: (Float64Array | null)[], flags: (Uint8Array | null)[], idx: Int32Array, from: number, to: number) {
+      if (to <= from) return;
+      let p = platforms.get(platform);
+      if (!p) {
+        const t = time[idx[from]!]!;
+        p = { rows: 0, first: t, last: NaN, buckets: PLOT_STEPS_S.map((s) => newBuckets(s, t)) };
+        platforms.set(platform, p);
+      }
+      // Timing and coverage.
+      let last = p.last;
+      for (let k = from; k < to; k++) {
+        const t = time[idx[k]!]!;
+        if (last === last && t - last > maxGap) noteGap({ platform, from: last, to: t });
+        last = t;
+      }
+      p.last = last;
+      p.rows += to - from;
+      for (const b of p.buckets) growTo(b, Math.floor((last - b.t0) / b.step) + 1);
+      for (let v = 0; v < nv; v++) {
+        const X = values[v];
+        const F = flags[v];
+        const fc = flagCounts[v]!;
+        if (!X || !F) {
+          fc[9]! += to - from;
+          continue;
+        }
+        let c = count[v]!, mu = mean[v]!, s2 = m2[v]!, lo = min[v]!, hi = max[v]!;
+        const [b1, b2] = p.buckets as [Buckets, Buckets];
+        const mn1 = b1.min[v]!, mx1 = b1.max[v]!, sm1 = b1.sum[v]!, n1 = b1.n[v]!, w1 = b1.worst[v]!;
+        const mn2 = b2.min[v]!, mx2 = b2.max[v]!, sm2 = b2.sum[v]!, n2 = b2.n[v]!, w2 = b2.worst[v]!;
+        const s1 = b1.step, t01 = b1.t0, s2s = b2.step, t02 = b2.t0;
+        for (let k = from; k < to; k++) {
+          const i = idx[k]!;
+          const f = F[i]!;
+          fc[f]!++;
+          const x = X[i]!;
+          if (x !== x) continue;
+          if (f <= 2) {
+            c++;
+            const d = x - mu;
+            mu += d / c;
+            s2 += d * (x - mu);
+            if (x < lo) lo = x;
+            if (x > hi) hi = x;
+          }
+          const t = time[i]!;
+          const j1 = Math.floor((t - t01) / s1);
+          if (x < mn1[j1]!) mn1[j1] = x;
+          if (x > mx1[j1]!) mx1[j1] = x;
+          sm1[j1]! += x;
+          n1[j1]!++;
+          if (f > w1[j1]! && f !== 9) w1[j1] = f;
+          const j2 = Math.floor((t - t02) / s2s);
+          if (x < mn2[j2]!) mn2[j2] = x;
+          if (x > mx2[j2]!) mx2[j2] = x;
+          sm2[j2]! += x;
+          n2[j2]!++;
+          if (f > w2[j2]! && f !== 9) w2[j2] = f;
+        }
+        count[v] = c;
+        mean[v] = mu;
+        m2[v] = s2;
+        min[v] = lo;
+        max[v] = hi;
+      }
+    },
+
+    summary(): VersionSummaryData {
+      const iso = (t: number) => (Number.isFinite(t) ? new Date(t * 1000).toISOString() : null);
+      let rows = 0;
+      let expected = 0;
+      let start = Infinity;
+      let end = -Infinity;
+      const plats: VersionSummaryData["platforms"] = [];
+      for (const [id, p] of platforms) {
+        rows += p.rows;
+        if (intervalS) expected += Math.round((p.last - p.first) / intervalS) + 1;
+        start = Math.min(start, p.first);
+        end = Math.max(end, p.last);
+        plats.push({ id, rows: p.rows, start: iso(p.first), end: iso(p.last) });
+      }
+      const vars: VariableStats[] = variables.map((variable, v) => {
+        const c = count[v]!;
+        const fc = flagCounts[v]!;
+        return {
+          variable,
+          unit: units[v]!,
+          count: c,
+          min: c ? min[v]! : null,
+          max: c ? max[v]! : null,
+          mean: c ? mean[v]! : null,
+          std: c > 1 ? Math.sqrt(m2[v]! / (c - 1)) : null,
+          flags: Array.from(fc),
+        };
+      });
+      gaps = gaps.sort((a, b) => b.to - b.from - (a.to - a.from));
+      return {
+        rows,
+        platforms: plats,
+        start: iso(start),
+        end: iso(end),
+        intervalS,
+        gaps: gaps.map((g) => ({ platform: g.platform, from: iso(g.from)!, to: iso(g.to)!, seconds: g.to - g.from })),
+        gapCount,
+        coverage: intervalS && expected > 0 ? Math.min(1, rows / expected) : null,
+        variables: vars,
+      };
+    },
+
+    /** Plot bucket arrays per platform, variable and step (empty buckets: n 0, NaN min/max/mean, worst flag 9). */
+    *plotSeries(): Generator<PlotSeriesRow> {
+      for (const [platform, p] of platforms) {
+        for (const b of p.buckets) {
+          for (let v = 0; v < nv; v++) {
+            const len = b.len;
+            const mn: number[] = new Array(len);
+            const mx: number[] = new Array(len);
+            const me: number[] = new Array(len);
+            const nn: number[] = new Array(len);
+            const wf: number[] = new Array(len);
+            let any = false;
+            for (let j = 0; j < len; j++) {
+              const n = b.n[v]![j]!;
+              nn[j] = n;
+              if (n > 0) {
+                any = true;
+                mn[j] = b.min[v]![j]!;
+                mx[j] = b.max[v]![j]!;
+                me[j] = b.sum[v]![j]! / n;
+                wf[j] = b.worst[v]![j]! || 9;
+              } else {
+                mn[j] = mx[j] = me[j] = NaN;
+                wf[j] = 9;
+              }
+            }
+            if (!any) continue;
+            yield { platform, variable: variables[v]!, stepS: b.step, t0: b.t0, min: mn, max: mx, mean: me, n: nn, worstFlag: wf };
+          }
+        }
+      }
+    },
+  };
+}
+export type Summariser = ReturnType<typeof createSummariser>;
