@@ -26,6 +26,11 @@ export function uploadKey(uploadId: string): string {
   return checkKey(`uploads/${uploadId}`);
 }
 
+/** Storage key of an unfinished resumable upload's data file (the tus id is server-made, see server/uploads/tus.ts). */
+export function tusPartKey(tusId: string): string {
+  return checkKey(`tus/${tusId}`);
+}
+
 /** Absolute path of a stored object from its key. Throws on anything that is not a key we made. */
 export function pathForKey(key: string): string {
   checkKey(key);
