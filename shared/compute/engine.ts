@@ -129,6 +129,142 @@ function newVarState(q: VariableQc | undefined): VarState {
   };
 }
 
+/** Raises a working flag and records which test raised it (bit t for suspect, 16 + t for fail). */
+function raiseAt(f: Uint8Array, t: Uint32Array, i: number, flag: number, test: number) {
+  if (flag > f[i]!) f[i] = flag;
+  if (flag === SUSPECT) t[i]! |= 1 << test;
+  else if (flag === FAIL) t[i]! |= 1 << (16 + test);
+}
+
+/**
+ * Spike, rate of change and flat line for one variable over records [from, n). The per-platform state lives in
+ * locals while a platform's run of records lasts and goes back to its VarState when the platform changes, so the
+ * hot loop touches registers rather than objects. Records not accepted by the timing test are skipped.
+ */
+function windowPass(
+  X: Float64Array,
+  time: Float64Array,
+  acc: Uint8Array,
+  plat: Int32Array,
+  F: Uint8Array,
+  T: Uint32Array,
+  from: number,
+  n: number,
+  platforms: PlatformState[],
+  k: number,
+  q: VariableQc,
+) {
+  const spike = q.spike;
+  const roc = q.rateOfChange;
+  const flat = q.flatLine;
+  const spS = spike ? spike.suspect : 0, spF = spike ? spike.fail : 0;
+  const rocN = roc ? roc.n : 0, rocW = roc ? roc.windowS : 0, rocMin = roc ? roc.minCount : 0;
+  const flEps = flat ? flat.epsilon : 0, flS = flat ? flat.suspectCount : 0, flF = flat ? flat.failCount : 0;
+  let lastP = -1;
+  let vs: VarState | null = null;
+  let p1 = 0, p2 = 0, p1Idx = 0, nPrev = 0;
+  let rocT: Float64Array = new Float64Array(0), rocV: Float64Array = new Float64Array(0);
+  let head = 0, size = 0, sum = 0, sq = 0, ref = 0, prev = 0, cap = 0;
+  let flatA: Float64Array = new Float64Array(0), flatPos = 0, flatSize = 0, K = 0;
+  for (let i = from; i < n; i++) {
+    if (!acc[i]) continue;
+    const p = plat[i]!;
+    if (p !== lastP) {
+      // No closure here: captured locals would live in a heap context instead of registers.
+      if (vs) {
+        vs.p1 = p1; vs.p2 = p2; vs.p1Idx = p1Idx; vs.nPrev = nPrev;
+        vs.rocT = rocT; vs.rocV = rocV; vs.rocHead = head; vs.rocSize = size; vs.rocSum = sum; vs.rocSq = sq; vs.ref = ref; vs.prev = prev;
+        vs.flatPos = flatPos; vs.flatSize = flatSize;
+      }
+      vs = platforms[p]!.vars[k]!;
+      lastP = p;
+      p1 = vs.p1; p2 = vs.p2; p1Idx = vs.p1Idx; nPrev = vs.nPrev;
+      rocT = vs.rocT; rocV = vs.rocV; head = vs.rocHead; size = vs.rocSize; sum = vs.rocSum; sq = vs.rocSq; ref = vs.ref; prev = vs.prev; cap = rocT.length;
+      flatA = vs.flat; flatPos = vs.flatPos; flatSize = vs.flatSize; K = flatA.length;
+    }
+    const x = X[i]!;
+    if (x !== x) {
+      // A gap in the values breaks the spike triple.
+      nPrev = 0;
+      continue;
+    }
+    if (spike) {
+      if (nPrev >= 2) {
+        const d = Math.abs(p1 - (p2 + x) / 2);
+        raiseAt(F, T, p1Idx, d >= spF ? FAIL : d >= spS ? SUSPECT : PASS, T_SPIKE);
+      }
+      p2 = p1;
+      p1 = x;
+      p1Idx = i;
+      if (nPrev < 2) nPrev++;
+    }
+    if (roc) {
+      const t = time[i]!;
+      if (ref !== ref) ref = x;
+      // Drop values that left the trailing window.
+      const lim = t - rocW;
+      while (size > 0 && rocT[head]! <= lim) {
+        const y = rocV[head]!;
+        sum -= y;
+        sq -= y * y;
+        head = head + 1 === cap ? 0 : head + 1;
+        size--;
+      }
+      if (size >= rocMin && prev === prev) {
+        const m = sum / size;
+        const varc = sq / size - m * m;
+        const sd = varc > 0 ? Math.sqrt(varc) : 0;
+        raiseAt(F, T, i, Math.abs(x - prev) > rocN * sd ? SUSPECT : PASS, T_RATE_OF_CHANGE);
+      }
+      if (size === cap) {
+        // Grow the ring, unrolling it so the oldest value comes first.
+        const c2 = Math.max(16, cap * 2);
+        const nt = new Float64Array(c2);
+        const nvv = new Float64Array(c2);
+        for (let j = 0; j < size; j++) {
+          const s = (head + j) % cap;
+          nt[j] = rocT[s]!;
+          nvv[j] = rocV[s]!;
+        }
+        rocT = nt;
+        rocV = nvv;
+        head = 0;
+        cap = c2;
+      }
+      // Values are kept relative to the series' first value so the running sums stay well conditioned.
+      const y = x - ref;
+      let tail = head + size;
+      if (tail >= cap) tail -= cap;
+      rocT[tail] = t;
+      rocV[tail] = y;
+      size++;
+      sum += y;
+      sq += y * y;
+      prev = x;
+    }
+    if (flat) {
+      if (flatSize >= flS) {
+        let c = 0;
+        let pos = flatPos;
+        while (c < flatSize) {
+          pos = pos === 0 ? K - 1 : pos - 1;
+          if (Math.abs(flatA[pos]! - x) > flEps) break;
+          c++;
+        }
+        raiseAt(F, T, i, c >= flF ? FAIL : c >= flS ? SUSPECT : PASS, T_FLAT_LINE);
+      }
+      flatA[flatPos] = x;
+      flatPos = flatPos + 1 === K ? 0 : flatPos + 1;
+      if (flatSize < K) flatSize++;
+    }
+  }
+  if (vs) {
+    vs.p1 = p1; vs.p2 = p2; vs.p1Idx = p1Idx; vs.nPrev = nPrev;
+        vs.rocT = rocT; vs.rocV = rocV; vs.rocHead = head; vs.rocSize = size; vs.rocSum = sum; vs.rocSq = sq; vs.ref = ref; vs.prev = prev;
+        vs.flatPos = flatPos; vs.flatSize = flatSize;
+  }
+}
+
 /** Grows a typed array, keeping the first `keep` items. */
 function grow<T extends Float64Array | Uint8Array | Uint32Array | Int32Array>(a: T, cap: number, keep: number): T {
   const b = new (a.constructor as new (n: number) => T)(cap);
@@ -439,103 +575,20 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
       const sMin = sensor?.min ?? -Infinity, sMax = sensor?.max ?? Infinity;
       const uMin = user?.min ?? -Infinity, uMax = user?.max ?? Infinity;
       const clim = q?.climatology ?? null;
-      const spike = q?.spike ?? null;
-      const roc = q?.rateOfChange ?? null;
-      const flat = q?.flatLine ?? null;
-      // Records of one platform usually come in runs: look its state up only when the platform changes.
-      let lastP = -1;
-      let vs: VarState = null as unknown as VarState;
+      // Tests without state: syntax of the field, gross range, climatology.
       for (let i = from; i < n; i++) {
         const x = X[i]!;
-        const p = plat[i]!;
-        if (p !== lastP) {
-          vs = platformState(p).vars[k]!;
-          lastP = p;
-        }
         if (x !== x) {
-          if (B[i]) raise(F, T, i, FAIL, T_SYNTAX);
-          // A gap in the values breaks the spike triple.
-          if (acc[i] && spike) vs.nPrev = 0;
+          if (B[i]) raiseAt(F, T, i, FAIL, T_SYNTAX);
           continue;
         }
-        if (sensor || user) {
-          raise(F, T, i, x < sMin || x > sMax ? FAIL : x < uMin || x > uMax ? SUSPECT : PASS, T_GROSS_RANGE);
-        }
+        if (sensor || user) raiseAt(F, T, i, x < sMin || x > sMax ? FAIL : x < uMin || x > uMax ? SUSPECT : PASS, T_GROSS_RANGE);
         if (clim && time[i] === time[i]) {
           const m = monthOf(time[i]!);
-          raise(F, T, i, x < clim.min[m]! || x > clim.max[m]! ? SUSPECT : PASS, T_CLIMATOLOGY);
-        }
-        if (!acc[i]) continue;
-        if (spike) {
-          if (vs.nPrev >= 2) {
-            const d = Math.abs(vs.p1 - (vs.p2 + x) / 2);
-            raise(F, T, vs.p1Idx, d >= spike.fail ? FAIL : d >= spike.suspect ? SUSPECT : PASS, T_SPIKE);
-          }
-          vs.p2 = vs.p1;
-          vs.p1 = x;
-          vs.p1Idx = i;
-          if (vs.nPrev < 2) vs.nPrev++;
-        }
-        if (roc) {
-          const t = time[i]!;
-          if (vs.ref !== vs.ref) vs.ref = x;
-          // Drop values that left the trailing window.
-          const lim = t - roc.windowS;
-          let cap2 = vs.rocT.length;
-          while (vs.rocSize > 0 && vs.rocT[vs.rocHead]! <= lim) {
-            const y = vs.rocV[vs.rocHead]!;
-            vs.rocSum -= y;
-            vs.rocSq -= y * y;
-            vs.rocHead = vs.rocHead + 1 === cap2 ? 0 : vs.rocHead + 1;
-            vs.rocSize--;
-          }
-          if (vs.rocSize >= roc.minCount && vs.prev === vs.prev) {
-            const m = vs.rocSum / vs.rocSize;
-            const varc = vs.rocSq / vs.rocSize - m * m;
-            const sd = varc > 0 ? Math.sqrt(varc) : 0;
-            raise(F, T, i, Math.abs(x - vs.prev) > roc.n * sd ? SUSPECT : PASS, T_RATE_OF_CHANGE);
-          }
-          if (vs.rocSize === cap2) {
-            // Grow the ring, unrolling it so the oldest value comes first.
-            const nt = new Float64Array(cap2 * 2);
-            const nvv = new Float64Array(cap2 * 2);
-            for (let j = 0; j < cap2; j++) {
-              const s = (vs.rocHead + j) % cap2;
-              nt[j] = vs.rocT[s]!;
-              nvv[j] = vs.rocV[s]!;
-            }
-            vs.rocT = nt;
-            vs.rocV = nvv;
-            vs.rocHead = 0;
-            cap2 *= 2;
-          }
-          const y = x - vs.ref;
-          let tail = vs.rocHead + vs.rocSize;
-          if (tail >= cap2) tail -= cap2;
-          vs.rocT[tail] = t;
-          vs.rocV[tail] = y;
-          vs.rocSize++;
-          vs.rocSum += y;
-          vs.rocSq += y * y;
-          vs.prev = x;
-        }
-        if (flat) {
-          const K = vs.flat.length;
-          if (vs.flatSize >= flat.suspectCount) {
-            let c = 0;
-            let pos = vs.flatPos;
-            while (c < vs.flatSize) {
-              pos = pos === 0 ? K - 1 : pos - 1;
-              if (Math.abs(vs.flat[pos]! - x) > flat.epsilon) break;
-              c++;
-            }
-            raise(F, T, i, c >= flat.failCount ? FAIL : c >= flat.suspectCount ? SUSPECT : PASS, T_FLAT_LINE);
-          }
-          vs.flat[vs.flatPos] = x;
-          vs.flatPos = vs.flatPos + 1 === K ? 0 : vs.flatPos + 1;
-          if (vs.flatSize < K) vs.flatSize++;
+          raiseAt(F, T, i, x < clim.min[m]! || x > clim.max[m]! ? SUSPECT : PASS, T_CLIMATOLOGY);
         }
       }
+      if (q && (q.spike || q.rateOfChange || q.flatLine)) windowPass(X, time, acc, plat, F, T, from, n, platforms, k, q);
     }
   }
 
