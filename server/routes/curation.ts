@@ -2,7 +2,7 @@ import { idParamsSchema } from "@shared/schemas/common";
 import { approveInputSchema, commentInputSchema, reasonInputSchema, submitInputSchema } from "@shared/schemas/curation";
 import { apiRouter } from "../lib/routes";
 import { addComment, followDataset, getFollow, listComments, unfollowDataset } from "../services/comments";
-import { approveVersion, getVersionReview, rejectVersion, requestChanges, submitVersion } from "../services/curation";
+import { approveVersion, compareVersion, getVersionReview, rejectVersion, requestChanges, submitVersion } from "../services/curation";
 
 export const curationApi = apiRouter("/api/versions");
 const r = curationApi;
@@ -11,6 +11,12 @@ const r = curationApi;
 r.get("/:id/review", "session", async (req, res) => {
   const { id } = idParamsSchema.parse(req.params);
   res.json(await getVersionReview(req.user!, id));
+});
+
+// GET /api/versions/:id/compare
+r.get("/:id/compare", "session", async (req, res) => {
+  const { id } = idParamsSchema.parse(req.params);
+  res.json(await compareVersion(req.user!, id));
 });
 
 // POST /api/versions/:id/submit

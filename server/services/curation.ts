@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, lt } from "drizzle-orm";
+import { and, asc, desc, eq, lt, sql, type SQL } from "drizzle-orm";
 import {
   curationActions,
   type ApproveInput,
@@ -7,13 +7,15 @@ import {
   type ReasonInput,
   type ReviewDecision,
   type SubmitInput,
+  type VersionComparison,
   type VersionPermissions,
   type VersionReview,
 } from "@shared/schemas/curation";
+import { derivedVariables, measuredVariables } from "@shared/vocabulary";
 import type { VersionState } from "@shared/schemas/datasets";
 import type { Db } from "../db/client";
 import { db } from "../db/client";
-import { auditLog, datasets, projects, releases, reviews, uploads, user as users, versionComments, versions } from "../db/schema";
+import { auditLog, datasets, plotSeries, projects, qcRuns, releases, reviews, uploads, user as users, versionComments, versions } from "../db/schema";
 import { conflict, forbidden, notFound } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
 import { assertProjectAccess, getProjectRole } from "./access";
@@ -263,6 +265,7 @@ export async function getVersionReview(user: SessionUser, versionId: string): Pr
         .orderBy(desc(versions.number))
         .limit(1);
   const [rel] = await db.select({ id: releases.id }).from(releases).where(eq(releases.versionId, versionId));
+  const [run] = await db.select({ counts: qcRuns.counts }).from(qcRuns).where(eq(qcRuns.versionId, versionId));
   return {
     version: {
       id: v.id,
@@ -281,6 +284,8 @@ export async function getVersionReview(user: SessionUser, versionId: string): Pr
     },
     previous: previous ? { id: previous.id, number: previous.number, state: previous.state, summary: previous.summary ?? null } : null,
     history: await versionHistory(versionId),
+    qc: run?.counts ?? null,
+    stretches: await flaggedStretches(versionId),
     releaseId: rel?.id ?? null,
     permissions: await permissionsFor(user, { ...v, state: full.state }),
   };
@@ -289,3 +294,91 @@ export async function getVersionReview(user: SessionUser, versionId: string): Pr
 /** Guards for other services (releases, comments). */
 export { versionForMember };
 
+
+/** Hourly plot buckets whose worst flag is suspect (3) or fail (4), joined into stretches; the longest first. */
+async function flaggedStretches(versionId: string, limit = 12): Promise<VersionReview["stretches"]> {
+  const rows = await db
+    .select({ platform: plotSeries.platform, variable: plotSeries.variable, stepS: plotSeries.stepS, t0: plotSeries.t0, worst: plotSeries.worstFlag })
+    .from(plotSeries)
+    .where(and(eq(plotSeries.versionId, versionId), eq(plotSeries.stepS, 3600)));
+  const out: VersionReview["stretches"] = [];
+  const iso = (t: number) => new Date(t * 1000).toISOString();
+  for (const r of rows) {
+    let start = -1;
+    let worst = 0;
+    for (let i = 0; i <= r.worst.length; i++) {
+      const f = i < r.worst.length ? r.worst[i]! : 0;
+      if (f === 3 || f === 4) {
+        if (start < 0) start = i;
+        worst = Math.max(worst, f);
+      } else if (start >= 0) {
+        out.push({ platform: r.platform, variable: r.variable, from: iso(r.t0 + start * r.stepS), to: iso(r.t0 + i * r.stepS), hours: ((i - start) * r.stepS) / 3600, worstFlag: worst });
+        start = -1;
+        worst = 0;
+      }
+    }
+  }
+  return out.sort((a, b) => b.worstFlag - a.worstFlag || b.hours - a.hours).slice(0, limit);
+}
+
+const knownColumns = new Set<string>([...measuredVariables, ...derivedVariables]);
+
+function summaryVariables(summary: unknown): string[] {
+  const vars = (summary as { variables?: { variable?: unknown }[] } | null)?.variables;
+  return Array.isArray(vars) ? vars.map((v) => String(v.variable)).filter((v) => knownColumns.has(v)) : [];
+}
+
+// GET /api/versions/:id/compare
+/**
+ * Compares a version's records with the previous version's. Records carry a validity range of version numbers
+ * (server/db/schema/records.ts), so only rows that start after the previous version or end before this one can
+ * differ: those two small sets are joined on (platform, time), never the whole series.
+ */
+export async function compareVersion(user: SessionUser, versionId: string): Promise<VersionComparison> {
+  const review = await getVersionReview(user, versionId);
+  const v = review.version;
+  const p = review.previous;
+  if (!p || p.number >= v.number) {
+    const [{ n }] = (await db.execute(sql`select count(*)::int as n from records where dataset_id = ${v.datasetId} and valid_from <= ${v.number} and (valid_to is null or valid_to > ${v.number})`))
+      .rows as [{ n: number }];
+    return { versionId: v.id, number: v.number, previous: null, rowsAdded: n, rowsRemoved: 0, rowsChanged: 0, variables: [] };
+  }
+  const names = [...new Set([...summaryVariables(v.summary), ...summaryVariables(p.summary)])];
+  const cols = names.length ? names : [...knownColumns];
+  const both = sql`n.time is not null and o.time is not null`;
+  const pair = (prefix: string, c: string) => sql`${sql.raw(prefix)}.${sql.identifier(c)}`;
+  const rowN: SQL[] = [];
+  const rowO: SQL[] = [];
+  for (const c of cols) {
+    rowN.push(pair("n", c), pair("n", `${c}_qc`));
+    rowO.push(pair("o", c), pair("o", `${c}_qc`));
+  }
+  const perVar = cols.flatMap((c, i) => [
+    sql`count(*) filter (where ${both} and ${pair("n", `${c}_qc`)} is distinct from ${pair("o", `${c}_qc`)})::int as ${sql.identifier(`f${i}`)}`,
+    sql`count(*) filter (where ${both} and ${pair("n", c)} is distinct from ${pair("o", c)})::int as ${sql.identifier(`v${i}`)}`,
+  ]);
+  const res = await db.execute(sql`
+    with n as (
+      select * from records where dataset_id = ${v.datasetId} and valid_from > ${p.number} and valid_from <= ${v.number}
+        and (valid_to is null or valid_to > ${v.number})
+    ), o as (
+      select * from records where dataset_id = ${v.datasetId} and valid_from <= ${p.number}
+        and valid_to is not null and valid_to > ${p.number} and valid_to <= ${v.number}
+    )
+    select
+      count(*) filter (where o.time is null)::int as added,
+      count(*) filter (where n.time is null)::int as removed,
+      count(*) filter (where ${both} and (${sql.join(rowN, sql`, `)}) is distinct from (${sql.join(rowO, sql`, `)}))::int as changed,
+      ${sql.join(perVar, sql`, `)}
+    from n full join o on n.platform = o.platform and n.time = o.time`);
+  const row = res.rows[0] as Record<string, number>;
+  return {
+    versionId: v.id,
+    number: v.number,
+    previous: { id: p.id, number: p.number },
+    rowsAdded: row.added!,
+    rowsRemoved: row.removed!,
+    rowsChanged: row.changed!,
+    variables: cols.map((c, i) => ({ variable: c, flagsChanged: row[`f${i}`]!, valuesChanged: row[`v${i}`]! })).filter((x) => x.flagsChanged || x.valuesChanged || names.length),
+  };
+}

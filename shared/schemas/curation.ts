@@ -151,6 +151,12 @@ export const versionReviewSchema = z.object({
   }),
   previous: z.object({ id: idSchema, number: z.number(), state: z.enum(versionStates), summary: z.unknown() }).nullable(),
   history: z.array(historyEntrySchema),
+  /** The processing run's report (qc_runs.counts): flag counts per variable, [suspect, fail] per test and variable. */
+  qc: z.unknown(),
+  /** The longest flagged stretches (hourly buckets whose worst flag is suspect or fail), longest first. */
+  stretches: z.array(
+    z.object({ platform: z.string(), variable: z.string(), from: z.string(), to: z.string(), hours: z.number(), worstFlag: z.number() }),
+  ),
   releaseId: idSchema.nullable(),
   permissions: versionPermissionsSchema,
 });
@@ -178,3 +184,17 @@ export const markReadInputSchema = z.union([
 export type MarkReadInput = z.infer<typeof markReadInputSchema>;
 
 export const followStateSchema = z.object({ following: z.boolean() });
+
+/** How a version differs from the one before it (records compared row by row in PostgreSQL). */
+export const versionComparisonSchema = z.object({
+  versionId: idSchema,
+  number: z.number(),
+  previous: z.object({ id: idSchema, number: z.number() }).nullable(),
+  rowsAdded: z.number(),
+  rowsRemoved: z.number(),
+  /** Rows present in both whose values or flags differ. */
+  rowsChanged: z.number(),
+  /** Per variable: rows present in both whose flag differs, and whose value differs. */
+  variables: z.array(z.object({ variable: z.string(), flagsChanged: z.number(), valuesChanged: z.number() })),
+});
+export type VersionComparison = z.infer<typeof versionComparisonSchema>;

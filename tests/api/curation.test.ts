@@ -1,6 +1,6 @@
-import { and, eq } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import { beforeAll, describe, expect, test } from "vitest";
-import { curationActions, versionReviewSchema, type CurationAction } from "@shared/schemas/curation";
+import { curationActions, versionComparisonSchema, versionReviewSchema, type CurationAction } from "@shared/schemas/curation";
 import { versionStates, type VersionState } from "@shared/schemas/datasets";
 import { db } from "../../server/db/client";
 import { auditLog, reviews, versions } from "../../server/db/schema";
@@ -230,5 +230,35 @@ describe("comments", () => {
     const bad = await as(ctx.users.curator.cookie).post(`/api/versions/nope/approve`).send({});
     expect(bad.status).toBe(400);
     expect(bad.body.error.details.id).toEqual(["Must be a valid id"]);
+  });
+});
+
+describe("GET /api/versions/:id/compare", () => {
+  test("counts rows added, removed and changed, and flags and values changed per variable", async () => {
+    const datasetId = await makeDataset(ctx.projectId);
+    const summary = { variables: [{ variable: "wind_speed", unit: "m s-1" }] };
+    const v1 = await makeVersion({ datasetId, state: "approved", createdBy: ctx.users.contributor.id, summary });
+    const v2 = await makeVersion({ datasetId, state: "in_review", createdBy: ctx.users.contributor.id, summary });
+    const t = (h: number) => `2026-03-01T0${h}:00:00Z`;
+    // Version 1: five hourly rows, all passed.
+    for (const [h, ws] of [[0, 5], [1, 6], [2, 7], [3, 8], [4, 9]] as const) {
+      await db.execute(sql`insert into records (dataset_id, time, valid_from, wind_speed, wind_speed_qc) values (${datasetId}, ${t(h)}, 1, ${ws}, 1)`);
+    }
+    // Version 2 rewrites hours 1–4 (closing version 1's rows) and appends hours 5 and 6:
+    // hour 1 rewritten identically (not a change), hour 2 new value, hour 3 new flag, hour 4 dropped.
+    await db.execute(sql`update records set valid_to = 2 where dataset_id = ${datasetId} and time >= ${t(1)}`);
+    for (const [h, ws, f] of [[1, 6, 1], [2, 7.5, 1], [3, 8, 3], [5, 10, 1], [6, 11, 4]] as const) {
+      await db.execute(sql`insert into records (dataset_id, time, valid_from, wind_speed, wind_speed_qc) values (${datasetId}, ${t(h)}, 2, ${ws}, ${f})`);
+    }
+    const res = await as(ctx.users.curator.cookie).get(`/api/versions/${v2}/compare`);
+    expect(res.status).toBe(200);
+    const c = versionComparisonSchema.parse(res.body);
+    expect(c).toMatchObject({ number: 2, previous: { id: v1, number: 1 }, rowsAdded: 2, rowsRemoved: 1, rowsChanged: 2 });
+    expect(c.variables).toEqual([{ variable: "wind_speed", flagsChanged: 1, valuesChanged: 1 }]);
+
+    // The first version has nothing before it: every row counts as added.
+    const first = versionComparisonSchema.parse((await as(ctx.users.curator.cookie).get(`/api/versions/${v1}/compare`)).body);
+    expect(first).toMatchObject({ previous: null, rowsAdded: 5, rowsRemoved: 0, rowsChanged: 0 });
+    expect((await as(ctx.users.outsider.cookie).get(`/api/versions/${v2}/compare`)).status).toBe(403);
   });
 });

@@ -85,6 +85,7 @@ const matrix: Record<string, Case> = {
   "PATCH /api/datasets/:id": { call: (i) => ({ url: `/api/datasets/${i.datasetId}`, body: { description: `edited ${u()}` } }), expect: writeMembers },
   "GET /api/review-queue": { call: () => ({ url: "/api/review-queue" }), expect: signedIn },
   "GET /api/versions/:id/review": { call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "in_review")}/review` }), expect: readMembers },
+  "GET /api/versions/:id/compare": { call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "in_review")}/compare` }), expect: readMembers },
   "POST /api/versions/:id/submit": { call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "ready")}/submit`, body: {} }), expect: writeMembers },
   "POST /api/versions/:id/approve": { call: async (i) => ({ url: `/api/versions/${await curationVersion(i, "in_review")}/approve`, body: {} }), expect: curatorsOnly },
   "POST /api/versions/:id/reject": {
