@@ -31,6 +31,11 @@ export function tusPartKey(tusId: string): string {
   return checkKey(`tus/${tusId}`);
 }
 
+/** Storage key of a whole-release download file: the release id and the format's number (1 csv, 2 data package, 3 parquet). */
+export function releaseFileKey(releaseId: string, formatNumber: 1 | 2 | 3): string {
+  return checkKey(`exports/${releaseId}-${formatNumber}`);
+}
+
 /** Absolute path of a stored object from its key. Throws on anything that is not a key we made. */
 export function pathForKey(key: string): string {
   checkKey(key);
