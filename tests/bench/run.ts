@@ -24,6 +24,7 @@ export type BenchPart = { run(ctx: BenchContext): Promise<Record<string, number 
 /** Part name → lazy import. */
 export const parts: Record<string, () => Promise<BenchPart>> = {
   engine: () => import("./engine"),
+  pipeline: () => import("./pipeline"),
 };
 
 const dir = resolve(".bench");

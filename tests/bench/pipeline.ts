@@ -1,0 +1,153 @@
+/**
+ * Bench part "pipeline" (issue 5), both sides in the same run on a private PostgreSQL cluster (.bench/pg):
+ *  (a) baseline — papaparse parsing the month-at-1-Hz mooring CSV and COPY of its raw rows into a bare table,
+ *      streamed, so parsing overlaps the COPY;
+ *  (b) the real pipeline — a completed upload of the same file turned into a ready version by a real worker
+ *      process (`node --import tsx server/worker.ts`), timed from the create call to state "ready".
+ * ratio = pipeline_s / baseline_s (goal ≤ 2); worker_peak_rss_mb is the worker's VmHWM (goal < 500).
+ */
+import { execFileSync, spawn } from "node:child_process";
+import { randomUUID } from "node:crypto";
+import { once } from "node:events";
+import { createReadStream, linkSync, mkdirSync, readFileSync, rmSync, statSync } from "node:fs";
+import { dirname, join } from "node:path";
+import { performance } from "node:perf_hooks";
+import Papa from "papaparse";
+import pg from "pg";
+import { from as copyFrom } from "pg-copy-streams";
+import { demoMooringColumnMap } from "../../shared/demo/generate";
+import type { BenchContext } from "./run";
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+async function baseline(url: string, csv: string): Promise<{ rows: number; seconds: number }> {
+  const c = new pg.Client({ connectionString: url });
+  await c.connect();
+  await c.query(`drop table if exists bench_raw`);
+  await c.query(`create table bench_raw (time timestamptz, wspd float8, wdir float8, gust float8, airt float8, baro float8, rh float8, sst float8, cur_e float8, cur_n float8)`);
+  const t0 = performance.now();
+  const copy = c.query(copyFrom(`copy bench_raw from stdin with (format csv)`));
+  const done = new Promise<void>((resolve, reject) => {
+    copy.on("finish", resolve);
+    copy.on("error", reject);
+  });
+  let carry = "";
+  let header = true;
+  let rows = 0;
+  const send = async (text: string) => {
+    const data = Papa.parse<string[]>(text, { delimiter: "," }).data;
+    if (data.length && data[data.length - 1]!.length === 1 && data[data.length - 1]![0] === "") data.pop();
+    const body = header ? data.slice(1) : data;
+    header = false;
+    rows += body.length;
+    const out = body.map((r) => r.join(",")).join("\n") + "\n";
+    if (!copy.write(out) && copy.writableLength > 32 << 20) await once(copy, "drain");
+  };
+  for await (const piece of createReadStream(csv, { encoding: "utf8", highWaterMark: 1 << 20 })) {
+    carry += piece as string;
+    const cut = carry.lastIndexOf("\n");
+    if (cut < 0) continue;
+    await send(carry.slice(0, cut + 1));
+    carry = carry.slice(cut + 1);
+  }
+  if (carry) await send(carry);
+  copy.end();
+  await done;
+  const seconds = (performance.now() - t0) / 1000;
+  await c.query(`drop table bench_raw`);
+  await c.end();
+  return { rows, seconds };
+}
+
+export async function run(ctx: BenchContext) {
+  const csv = await ctx.mooringCsv();
+  const port = process.env.BENCH_PG_PORT ?? "55471";
+  const dbName = "tauline_bench";
+  execFileSync("bash", ["scripts/pg.sh", "start", join(ctx.dir, "pg"), port, "postgres"], { stdio: "inherit" });
+  const admin = new pg.Client({ connectionString: `postgres://postgres@127.0.0.1:${port}/postgres` });
+  await admin.connect();
+  await admin.query(`drop database if exists ${dbName} with (force)`);
+  await admin.query(`create database ${dbName}`);
+  await admin.end();
+  const url = `postgres://postgres@127.0.0.1:${port}/${dbName}`;
+  const storage = join(ctx.dir, "storage");
+  rmSync(storage, { recursive: true, force: true });
+  Object.assign(process.env, { DATABASE_URL: url, STORAGE_DIR: storage, LOG_LEVEL: "warn" });
+  const { db, pool } = await import("../../server/db/client");
+  const { runMigrations } = await import("../../server/db/migrate");
+  await runMigrations(db);
+
+  ctx.log("pipeline: baseline (papaparse + COPY of raw rows)");
+  const base = await baseline(url, csv);
+  ctx.log(`pipeline: baseline ${base.rows} rows in ${base.seconds.toFixed(2)} s`);
+
+  // A completed upload of the same file, as the upload endpoint leaves it.
+  const { uploadKey, pathForKey } = await import("../../server/lib/file-store");
+  const o = ctx.mooringOptions;
+  const userId = randomUUID();
+  await pool.query(`insert into "user" (id, name, email, email_verified, role) values ($1, 'Bench data manager', $2, true, 'admin')`, [userId, `bench-${userId.slice(0, 8)}@tauline.invalid`]);
+  const project = (await pool.query(`insert into projects (slug, name) values ($1, 'Merrow Shelf bench') returning id`, [`bench-${userId.slice(0, 8)}`])).rows[0].id;
+  const platform = (await pool.query(`insert into platforms (project_id, name, kind) values ($1, 'Merrow bench buoy', 'mooring') returning id`, [project])).rows[0].id;
+  const deployment = (
+    await pool.query(
+      `insert into deployments (platform_id, name, start_time, latitude, longitude, anemometer_height_m, coastline_offshore_bearing_deg) values ($1, 'B-1', to_timestamp($2), $3, $4, 4, 270) returning id`,
+      [platform, o.start, o.latitude, o.longitude],
+    )
+  ).rows[0].id;
+  const dataset = (await pool.query(`insert into datasets (project_id, deployment_id, title) values ($1, $2, 'Bench month') returning id`, [project, deployment])).rows[0].id;
+  const uploadId = randomUUID();
+  const key = uploadKey(uploadId);
+  mkdirSync(dirname(pathForKey(key)), { recursive: true });
+  linkSync(csv, pathForKey(key));
+  await pool.query(`insert into uploads (id, dataset_id, uploader_id, original_name, storage_key, size_bytes, sha256) values ($1, $2, $3, 'merrow-month-1hz.csv', $4, $5, $6)`, [
+    uploadId,
+    dataset,
+    userId,
+    key,
+    statSync(csv).size,
+    "0".repeat(64),
+  ]);
+
+  const worker = spawn(process.execPath, ["--import", "tsx", "server/worker.ts"], {
+    env: { ...process.env, NODE_ENV: "production", LOG_LEVEL: "info" },
+    stdio: ["ignore", "pipe", "inherit"],
+  });
+  let out = "";
+  worker.stdout!.on("data", (b) => (out += b));
+  while (!out.includes("worker ready")) {
+    if (worker.exitCode !== null) throw new Error(`worker exited: ${out}`);
+    await sleep(50);
+  }
+  const { createVersion } = await import("../../server/services/versions");
+  const { stopSender } = await import("../../server/jobs/queue");
+  ctx.log("pipeline: building a version from the upload");
+  const t0 = performance.now();
+  const v = await createVersion({ id: userId, name: "Bench", email: "bench@tauline.invalid", emailVerified: true, isAdmin: true }, dataset, {
+    uploadId,
+    columnMap: demoMooringColumnMap(),
+    mode: "replace",
+  });
+  let state = "processing";
+  while (state === "processing") {
+    await sleep(100);
+    state = (await pool.query(`select state from versions where id = $1`, [v.id])).rows[0].state;
+  }
+  const pipelineS = (performance.now() - t0) / 1000;
+  const status = readFileSync(`/proc/${worker.pid}/status`, "utf8");
+  const hwmKb = Number(/VmHWM:\s+(\d+)/.exec(status)?.[1] ?? NaN);
+  const run = (await pool.query(`select rows_done, timings, error from qc_runs where version_id = $1`, [v.id])).rows[0];
+  worker.kill("SIGTERM");
+  await once(worker, "exit");
+  await stopSender();
+  if (state !== "ready") throw new Error(`pipeline build ended ${state}: ${JSON.stringify(run.error)}`);
+  const rows = Number(run.rows_done);
+  ctx.log(`pipeline: ${rows} rows ready in ${pipelineS.toFixed(2)} s (${JSON.stringify(run.timings)}); worker peak RSS ${(hwmKb / 1024).toFixed(0)} MB`);
+  await pool.end();
+  return {
+    rows,
+    baseline_s: Number(base.seconds.toFixed(2)),
+    pipeline_s: Number(pipelineS.toFixed(2)),
+    ratio: Number((pipelineS / base.seconds).toFixed(3)),
+    worker_peak_rss_mb: Math.round(hwmKb / 1024),
+  };
+}
