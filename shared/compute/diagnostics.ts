@@ -1,6 +1,6 @@
 import type { QcSettings } from "../schemas/qc-settings";
 import type { DerivedVariable, MeasuredVariable } from "../vocabulary";
-import { FLAG, worseDerivedFlag as _worseDerivedFlag } from "./flags";
+import { FLAG, WORSE as _WORSE } from "./flags";
 import {
   airDensity as _airDensity,
   coriolis as _coriolis,
@@ -19,7 +19,7 @@ import {
 
 // Module-level copies: hot loops then call plain locals rather than going through import bindings.
 const { PASS, NOT_EVALUATED, SUSPECT, MISSING } = FLAG;
-const worseDerivedFlag = _worseDerivedFlag;
+const W = _WORSE;
 const airDensity = _airDensity;
 const coriolis = _coriolis;
 const dragCoefficient = _dragCoefficient;
@@ -205,12 +205,12 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
     ue10[i] = u * k;
     vn10[i] = v * k;
     const speedFlag = wsF[i]!;
-    const vecFlag = worseDerivedFlag(speedFlag, wdF[i]!);
+    const vecFlag = W[(speedFlag << 4) | wdF[i]!];
     u10F[i] = speedFlag;
     ue10F[i] = vecFlag;
     vn10F[i] = vecFlag;
     cd[i] = dragCoefficient(law, s10, tC);
-    cdF[i] = law === "S88" && tAirF ? worseDerivedFlag(speedFlag, tAirF[i]!) : speedFlag;
+    cdF[i] = law === "S88" && tAirF ? W[(speedFlag << 4) | tAirF[i]!] : speedFlag;
   }
 
   const [rhoA, rhoAF] = mk("air_density");
@@ -229,8 +229,8 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
         continue;
       }
       rhoA[i] = airDensity(p[i]!, tAir[i]!, rh ? rh[i]! : 0);
-      let f = worseDerivedFlag(pF![i]!, tAirF![i]!);
-      if (rhF && !Number.isNaN(rh![i]!)) f = worseDerivedFlag(f, rhF[i]!);
+      let f = W[(pF![i]! << 4) | tAirF![i]!];
+      if (rhF && !Number.isNaN(rh![i]!)) f = W[(f << 4) | rhF[i]!];
       rhoAF[i] = f;
     }
   }
@@ -243,8 +243,8 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
     tx[i] = k * ue10[i]!;
     ty[i] = k * vn10[i]!;
     tm[i] = k * u10[i]!;
-    const fs = worseDerivedFlag(worseDerivedFlag(cdF[i]!, rhoAF[i]!), u10F[i]!);
-    const fv = worseDerivedFlag(fs, ue10F[i]!);
+    const fs = W[(W[(cdF[i]! << 4) | rhoAF[i]!]! << 4) | u10F[i]!]!;
+    const fv = W[(fs << 4) | ue10F[i]!];
     txF[i] = fv;
     tyF[i] = fv;
     tmF[i] = fs;
@@ -282,14 +282,14 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
       }
       const f = fc[i]!;
       const rf = rho * f;
-      const vecF = worseDerivedFlag(txF[i]!, lf);
+      const vecF = W[(txF[i]! << 4) | lf];
       const ueI = ty[i]! / rf;
       const veI = -tx[i]! / rf;
       eu[i] = ueI;
       ev[i] = veI;
       euF[i] = evF[i] = vecF;
       de[i] = lat ? ekmanDepthEmpirical(u10[i]!, la, d.ekmanDepthCoefficient) : (d.ekmanDepthCoefficient * u10[i]!) / sinFixed;
-      deF[i] = worseDerivedFlag(u10F[i]!, lf);
+      deF[i] = W[(u10F[i]! << 4) | lf];
       dt[i] = lat ? ekmanDepthTheoretical(az, f) : dtFixed;
       dtF[i] = lf;
       // Surface current: 45° clockwise of the stress in the north, anticlockwise in the south (sign of f).
@@ -336,7 +336,7 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
       if (dA === -180) dA = 180;
       ang[i] = dA;
       rat[i] = u10[i]! > 0 ? cs / u10[i]! : NaN;
-      const fl = worseDerivedFlag(worseDerivedFlag(cuF[i]!, cvF[i]!), ue10F[i]!);
+      const fl = W[(W[(cuF[i]! << 4) | cvF[i]!]! << 4) | ue10F[i]!]!;
       angF[i] = Number.isNaN(ang[i]!) && fl < SUSPECT ? NOT_EVALUATED : fl;
       ratF[i] = Number.isNaN(rat[i]!) && fl < SUSPECT ? NOT_EVALUATED : fl;
     }

@@ -3,7 +3,7 @@ import { measuredVariables, type DerivedVariable, type MeasuredVariable } from "
 import type { RecordChunk } from "./canonical";
 import { buildProvenance, computeDiagnostics as _computeDiagnostics, type DeploymentContext, type DiagnosticsPool, type Provenance } from "./diagnostics";
 import { fromBearing as _fromBearing, windU as _windU, windV as _windV, currentU as _currentU, currentV as _currentV, wrap180 as _wrap180 } from "./directions";
-import { FLAG, TEST, aggregateFlag as _aggregateFlag, worseDerivedFlag as _worseDerivedFlag } from "./flags";
+import { FLAG, TEST, aggregateFlag as _aggregateFlag, WORSE as _WORSE } from "./flags";
 import { haversine as _haversine, fixVelocity as _fixVelocity } from "./geodesy";
 import { daysFromCivil as _daysFromCivil } from "./canonical";
 
@@ -11,7 +11,7 @@ import { daysFromCivil as _daysFromCivil } from "./canonical";
 const { PASS, NOT_EVALUATED, SUSPECT, FAIL, MISSING } = FLAG;
 const { GAP: T_GAP, SYNTAX: T_SYNTAX, LOCATION: T_LOCATION, GROSS_RANGE: T_GROSS_RANGE, CLIMATOLOGY: T_CLIMATOLOGY, SPIKE: T_SPIKE, RATE_OF_CHANGE: T_RATE_OF_CHANGE, FLAT_LINE: T_FLAT_LINE, MULTI_VARIATE: T_MULTI_VARIATE, IMPLIED_SPEED: T_IMPLIED_SPEED } = TEST;
 const aggregateFlag = _aggregateFlag;
-const worseDerivedFlag = _worseDerivedFlag;
+const W = _WORSE;
 const fromBearing = _fromBearing;
 const windU = _windU;
 const windV = _windV;
@@ -659,7 +659,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
       const F = fresh(`f${k}`, Uint8Array, m);
       const T = fresh(`t${k}`, Uint32Array, m);
       const counts = flagCounts[k]!;
-      const W = flg[k]!;
+      const WF = flg[k]!;
       const TT = tst[k]!;
       const isPos = k === iLat || k === iLon;
       const isDir = k === iWd;
@@ -670,7 +670,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
       const TA = src ? block.tests[vars[src[0]]!]! : null;
       const TB = src ? block.tests[vars[src[1]]!]! : null;
       for (let i = 0; i < m; i++) {
-        let w = W[i]!;
+        let w = WF[i]!;
         let word = TT[i]! | recTests[i]!;
         if (recFlag[i]! > w) w = recFlag[i]!;
         if (isPos) {
@@ -680,10 +680,10 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
         const x = X[i]!;
         let a: number;
         if (FA) {
-          a = worseDerivedFlag(FA[i]!, FB![i]!);
+          a = W[(FA[i]! << 4) | FB![i]!];
           word |= (TA![i]! | TB![i]!) & ~CALM_BIT;
           if (x !== x) a = MISSING;
-          else if (W[i]! > 0) a = worseDerivedFlag(a, W[i]!);
+          else if (WF[i]! > 0) a = W[(a << 4) | WF[i]!]!;
         } else {
           a = aggregateFlag(w, x !== x && !B[i] && !(recTests[i]! & FAIL_BIT(T_SYNTAX)));
         }
@@ -703,7 +703,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
       const lf = block.flags.latitude!;
       const of = block.flags.longitude!;
       const du = take("dU", dU, m);
-      for (let i = 0; i < m; i++) fl[i] = du[i] === du[i] ? worseDerivedFlag(lf[i]!, of[i]!) : MISSING;
+      for (let i = 0; i < m; i++) fl[i] = du[i] === du[i] ? W[(lf[i]! << 4) | of[i]!] : MISSING;
       drift = { u: du, v: take("dV", dV, m), speed: take("dS", dS, m), flag: fl };
       block.derived.surface_eastward_sea_water_velocity = drift.u;
       block.derived.surface_northward_sea_water_velocity = drift.v;

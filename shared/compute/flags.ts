@@ -57,7 +57,7 @@ export function aggregateFlag(working: number, missing: boolean): FlagValue {
 }
 
 /** Rank for combining aggregate flags of inputs into a derived value: 1 < 2 < 3 < 4 < 9. */
-const derivedRank = new Uint8Array([0, 1, 2, 3, 4, 0, 0, 0, 0, 5]);
+const derivedRank = new Uint8Array([0, 1, 2, 3, 4, 0, 0, 0, 0, 5, 0, 0, 0, 0, 0, 0]);
 
 /** Worst of two aggregate flags for a derived value (a missing input makes the derived value missing). O(1). */
 export function worseDerivedFlag(a: number, b: number): number {
@@ -70,3 +70,10 @@ export function testRaised(word: number, t: number): 0 | 3 | 4 {
   if (word & (1 << t)) return 3;
   return 0;
 }
+
+/**
+ * `worseDerivedFlag` as a table: WORSE[(a << 4) | b] for aggregate flags a, b (both < 16). Hot loops index this
+ * instead of calling a function. Built once at load.
+ */
+export const WORSE = new Uint8Array(256);
+for (let a = 0; a < 16; a++) for (let b = 0; b < 16; b++) WORSE[(a << 4) | b] = worseDerivedFlag(a, b);
