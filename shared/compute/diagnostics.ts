@@ -4,7 +4,7 @@ import { FLAG, WORSE as _WORSE } from "./flags";
 import {
   airDensity as _airDensity,
   coriolis as _coriolis,
-  dragCoefficient as _dragCoefficient,
+
   dragLawSources,
   EARTH_RADIUS_M,
   ekmanDepthEmpirical as _ekmanDepthEmpirical,
@@ -12,7 +12,8 @@ import {
   ekmanSurfaceSpeed as _ekmanSurfaceSpeed,
   KAPPA,
   OMEGA,
-  u10Drag as _u10Drag,
+  u10DragWith as _u10DragWith,
+  dragFunction,
   u10Log as _u10Log,
   u10Power as _u10Power,
 } from "./physics";
@@ -22,11 +23,10 @@ const { PASS, NOT_EVALUATED, SUSPECT, MISSING } = FLAG;
 const W = _WORSE;
 const airDensity = _airDensity;
 const coriolis = _coriolis;
-const dragCoefficient = _dragCoefficient;
 const ekmanDepthEmpirical = _ekmanDepthEmpirical;
 const ekmanDepthTheoretical = _ekmanDepthTheoretical;
 const ekmanSurfaceSpeed = _ekmanSurfaceSpeed;
-const u10Drag = _u10Drag;
+const u10DragWith = _u10DragWith;
 const u10Log = _u10Log;
 const u10Power = _u10Power;
 
@@ -194,12 +194,14 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
   const [ue10, ue10F] = mk("eastward_wind_10m_neutral");
   const [vn10, vn10F] = mk("northward_wind_10m_neutral", ue10F);
   const [cd, cdF] = mk("surface_drag_coefficient_for_momentum_in_air");
+  const cdOf = dragFunction(law);
+  const lz = Math.log(z / 10) / KAPPA;
   for (let i = 0; i < n; i++) {
     const u = wu[i]!;
     const v = wv[i]!;
     const s = Math.sqrt(u * u + v * v);
     const tC = tAir ? tAir[i]! - 273.15 : 15;
-    const s10 = nw.method === "drag" ? u10Drag(s, z, law, tC) : nw.method === "power" ? u10Power(s, z, nw.powerExponent) : u10Log(s, z, nw.z0);
+    const s10 = nw.method === "drag" ? u10DragWith(s, lz, cdOf, tC) : nw.method === "power" ? u10Power(s, z, nw.powerExponent) : u10Log(s, z, nw.z0);
     const k = s > 0 ? s10 / s : 1;
     u10[i] = s10;
     ue10[i] = u * k;
@@ -209,7 +211,7 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
     u10F[i] = speedFlag;
     ue10F[i] = vecFlag;
     vn10F[i] = vecFlag;
-    cd[i] = dragCoefficient(law, s10, tC);
+    cd[i] = cdOf(s10, tC);
     cdF[i] = law === "S88" && tAirF ? W[(speedFlag << 4) | tAirF[i]!] : speedFlag;
   }
 

@@ -108,6 +108,21 @@ export function dragCoefficient(law: DragLaw, u: number, tC = 15): number {
   }
 }
 
+/**
+ * The drag law as a plain function of (U10N in m s-1, air temperature in °C), chosen once so per-record loops do
+ * not switch on the law's name. Same numbers as `dragCoefficient`.
+ */
+export function dragFunction(law: DragLaw): (u: number, tC: number) => number {
+  switch (law) {
+    case "LP81":
+      return (u) => (u !== u ? NaN : u < 11 ? 1.2e-3 : (0.49 + 0.065 * u) * 1e-3);
+    case "S88":
+      return (u, tC) => dragS88(u, tC).cd;
+    default:
+      return (u, tC) => dragCoefficient(law, u, tC);
+  }
+}
+
 /** Neutral-wind height adjustments (DOMAIN §3). */
 export const neutralWindMethods = ["power", "log", "drag"] as const;
 export type NeutralWindMethod = (typeof neutralWindMethods)[number];
@@ -127,11 +142,18 @@ export function u10Log(uz: number, zM: number, z0 = 2e-4): number {
  * below 1e-6 m s-1 (how LP81 did it). Cost: up to 30 iterations, ~5 typical. NaN or z = 10 returns Uz.
  */
 export function u10Drag(uz: number, zM: number, law: DragLaw, tC = 15): number {
-  if (Number.isNaN(uz) || zM === 10) return uz;
-  const lz = Math.log(zM / 10) / KAPPA;
+  return u10DragWith(uz, Math.log(zM / 10) / KAPPA, dragFunction(law), tC);
+}
+
+/**
+ * The iteration of `u10Drag` with ln(z/10)/κ and the drag function supplied, for per-record loops. lz = 0 (a 10 m
+ * sensor) returns Uz. Cost: up to 30 iterations.
+ */
+export function u10DragWith(uz: number, lz: number, cdOf: (u: number, tC: number) => number, tC = 15): number {
+  if (uz !== uz || lz === 0) return uz;
   let u = uz;
   for (let k = 0; k < 30; k++) {
-    const next = uz / (1 + Math.sqrt(dragCoefficient(law, u, tC)) * lz);
+    const next = uz / (1 + Math.sqrt(cdOf(u, tC)) * lz);
     if (Math.abs(next - u) < 1e-6) return next;
     u = next;
   }
