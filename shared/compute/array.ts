@@ -17,6 +17,7 @@ export interface ArrayInput {
   flags?: ArrayLike<number>;
 }
 
+/** Options for `arrayDiagnostics`; every field has a documented default. */
 export interface ArrayOptions {
   /** Seawater density, kg m-3 (default 1025, common practice). */
   rho?: number;
@@ -27,6 +28,7 @@ export interface ArrayOptions {
   radiusM?: number;
 }
 
+/** A fit with its derived quantities, or a refusal with the reason and how many platforms were usable. */
 export type ArrayResult =
   | {
       ok: true;

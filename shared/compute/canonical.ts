@@ -21,6 +21,7 @@ export interface RecordChunk {
   recordBad: Uint8Array;
 }
 
+/** A problem found while reading a row: its 1-based file line, the column when known, and what was wrong. */
 export interface ParseWarning {
   line: number;
   column?: string;
@@ -150,6 +151,7 @@ interface BoundColumn {
   turn: number;
 }
 
+/** Whether the map's columns were all found, with a one-line reason when not. */
 export type BindResult = { ok: true } | { ok: false; error: string };
 
 /**

@@ -115,6 +115,7 @@ export interface DiagnosticsInput {
  */
 export type DiagnosticsPool = Map<string, { v: Float64Array; f: Uint8Array }>;
 
+/** Derived values (NaN where not computable) and their aggregate flags, keyed by derived variable. */
 export interface DiagnosticsOutput {
   values: Partial<Record<DerivedVariable, Float64Array>>;
   flags: Partial<Record<DerivedVariable, Uint8Array>>;

@@ -61,6 +61,7 @@ export interface EngineBlock {
   derivedFlags: Partial<Record<DerivedVariable, Uint8Array>>;
 }
 
+/** Counts over a whole run, for reports: rows, time span, flags per variable and per test. */
 export interface RunSummary {
   rows: number;
   timeMin: number;
@@ -272,11 +273,7 @@ function grow<T extends Float64Array | Uint8Array | Uint32Array | Int32Array>(a:
   return b;
 }
 
-/**
- * Creates an engine for one deployment (or one fleet file). `variables` are the measured variables the input
- * chunks will carry (e.g. `canonicalizer.variables`). Cost per record O(variables), plus O(window) memory per
- * variable and platform for the rate-of-change window.
- */
+/** How the engine hands out results. */
 export interface EngineOptions {
   /**
    * Reuse the arrays of returned blocks: each block is then valid only until the next `push`/`finish`. For
@@ -285,6 +282,13 @@ export interface EngineOptions {
   reuseBlocks?: boolean;
 }
 
+/**
+ * Creates an engine for one deployment (or one fleet file). `variables` are the measured variables the input
+ * chunks will carry (e.g. `canonicalizer.variables`). Values are in canonical units (shared/vocabulary.ts); NaN
+ * means no value (flag 9) unless the chunk marks the field unreadable (flag 4). Cost per record O(variables), plus
+ * O(window) memory per variable and platform for the rate-of-change window, and a short iteration per record for
+ * the neutral wind. Push chunks of a few thousand records (`sliceChunk`, `ENGINE_SLICE`) for speed.
+ */
 export function createEngine(settings: QcSettings, ctx: DeploymentContext, inputVariables: readonly MeasuredVariable[], options: EngineOptions = {}): Engine {
   const reuse = options.reuseBlocks === true;
   const diagPool: DiagnosticsPool | undefined = reuse ? new Map() : undefined;

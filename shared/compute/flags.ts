@@ -3,10 +3,12 @@
  * Inside the engine a per-record working flag of 0 means "no test has run yet"; it becomes 2 when aggregated.
  */
 export const FLAG = { PASS: 1, NOT_EVALUATED: 2, SUSPECT: 3, FAIL: 4, MISSING: 9 } as const;
+/** An aggregate flag value. */
 export type FlagValue = 1 | 2 | 3 | 4 | 9;
 
 /** CF `flag_values` / `flag_meanings` for every `<name>_qc` column (CF 1.11 §3.5). */
 export const flagValues = [1, 2, 3, 4, 9] as const;
+/** CF `flag_meanings`, in the order of `flagValues`. */
 export const flagMeanings = "pass not_evaluated suspect fail missing_data";
 
 /**
@@ -25,7 +27,9 @@ export const TEST = {
   MULTI_VARIATE: 8,
   IMPLIED_SPEED: 9,
 } as const;
+/** Name of a QC test (key of TEST). */
 export type TestName = keyof typeof TEST;
+/** All QC test names in bit order. */
 export const testNames = Object.keys(TEST) as TestName[];
 
 /** CF-style snake_case name of each test, as used in reports and flag attributes. */

@@ -32,6 +32,7 @@ export function beta(latDeg: number, radiusM: number = EARTH_RADIUS_M): number {
 
 /** Selectable neutral 10 m drag laws (DOMAIN §4). */
 export const dragLaws = ["LP81", "T90", "LY04", "LY09", "YT96", "S88"] as const;
+/** Name of a drag law. */
 export type DragLaw = (typeof dragLaws)[number];
 
 /** Published source of each drag law, recorded in provenance. */
@@ -125,6 +126,7 @@ export function dragFunction(law: DragLaw): (u: number, tC: number) => number {
 
 /** Neutral-wind height adjustments (DOMAIN §3). */
 export const neutralWindMethods = ["power", "log", "drag"] as const;
+/** Name of a neutral-wind method: power law, log law, or iterative with the drag law. */
 export type NeutralWindMethod = (typeof neutralWindMethods)[number];
 
 /** Power-law U10 = Uz·(10/z)^p; p = 0.11 for near-neutral sea (Hsu, Meindl & Gilhousen 1994; from memory). */
