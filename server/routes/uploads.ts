@@ -8,7 +8,7 @@ export const datasetUploadsApi = apiRouter("/api/datasets");
 // GET /api/datasets/:id/uploads
 datasetUploadsApi.get("/:id/uploads", "session", async (req, res) => {
   const { id } = idParamsSchema.parse(req.params);
-  res.json({ items: await listDatasetUploads(req.user, id) });
+  res.json(await listDatasetUploads(req.user, id));
 });
 
 export const uploadsApi = apiRouter("/api/uploads");

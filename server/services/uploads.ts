@@ -3,7 +3,7 @@ import { open, rename, unlink } from "node:fs/promises";
 import { and, desc, eq } from "drizzle-orm";
 import type { Upload } from "@tus/utils";
 import { columnMapSchema } from "@shared/schemas/column-map";
-import type { PreviewQuery, UploadDetail, UploadSummary } from "@shared/schemas/uploads";
+import type { DatasetUploads, PreviewQuery, UploadDetail, UploadSummary } from "@shared/schemas/uploads";
 import { createScanner, detectEncoding, previewRows, sniffDialect, suggestColumnMap, type Dialect, type ScanResult } from "@shared/sniff";
 import { db } from "../db/client";
 import { columnMaps, datasets, deployments, platforms, uploadInspections, uploads, user as users } from "../db/schema";
@@ -157,8 +157,11 @@ function toSummary(r: { createdAt: Date; status: string | null } & Omit<UploadSu
   return { ...r, createdAt: r.createdAt.toISOString(), status: r.status as UploadSummary["status"] };
 }
 
-/** Uploads of a dataset, newest first. Members of the dataset's project (and admins) may list them. */
-export async function listDatasetUploads(user: SessionUser | null | undefined, datasetId: string): Promise<UploadSummary[]> {
+/**
+ * Uploads of a dataset, newest first, with the dataset's platform and that platform's latest saved column map (the
+ * browser checks a new file against it while it uploads). Members of the dataset's project (and admins) may list them.
+ */
+export async function listDatasetUploads(user: SessionUser | null | undefined, datasetId: string): Promise<DatasetUploads> {
   const projectId = await datasetProject(datasetId);
   if (!projectId) {
     if (!user) throw new AppError("unauthenticated", "Sign in to continue", 401);
@@ -172,7 +175,13 @@ export async function listDatasetUploads(user: SessionUser | null | undefined, d
     .leftJoin(uploadInspections, eq(uploadInspections.uploadId, uploads.id))
     .where(eq(uploads.datasetId, datasetId))
     .orderBy(desc(uploads.createdAt));
-  return rows.map(toSummary);
+  const [p] = await db
+    .select({ platformId: deployments.platformId })
+    .from(datasets)
+    .leftJoin(deployments, eq(deployments.id, datasets.deploymentId))
+    .where(eq(datasets.id, datasetId));
+  const platformId = p?.platformId ?? null;
+  return { items: rows.map(toSummary), platformId, savedMap: platformId ? await latestColumnMap(platformId) : null };
 }
 
 /** The latest saved column map of a platform, or null. */

@@ -28,6 +28,14 @@ export const uploadSummarySchema = z.object({
 });
 export type UploadSummary = z.infer<typeof uploadSummarySchema>;
 
+/** GET /api/datasets/:id/uploads: the uploads, the dataset's platform and its latest saved column map. */
+export const datasetUploadsSchema = z.object({
+  items: z.array(uploadSummarySchema),
+  platformId: idSchema.nullable(),
+  savedMap: z.unknown().nullable(),
+});
+export type DatasetUploads = z.infer<typeof datasetUploadsSchema>;
+
 /** Dialect overrides for the preview, from query parameters (all optional; the sniffed dialect fills the rest). */
 export const previewQuerySchema = z.object({
   delimiter: z
@@ -38,7 +46,7 @@ export const previewQuerySchema = z.object({
   headerRow: z.coerce.number({ message: "headerRow is a line number" }).int("headerRow is a whole line number").min(0, "headerRow is 0 (none) or a line number").max(50, "headerRow is at most 50").optional(),
   skipRows: z.coerce.number({ message: "skipRows is a number of lines" }).int("skipRows is a whole number").min(0, "skipRows is 0 or more").max(50, "skipRows is at most 50").optional(),
 });
-export type PreviewQuery = z.input<typeof previewQuerySchema>;
+export type PreviewQuery = { delimiter?: "comma" | "semicolon" | "tab" | "space"; decimalMark?: "point" | "comma"; headerRow?: number; skipRows?: number };
 export const delimiterNames: Record<(typeof delimiters)[number], "comma" | "semicolon" | "tab" | "space"> = { ",": "comma", ";": "semicolon", "\t": "tab", " ": "space" };
 
 /** An upload with what the server found in it, the first data rows and a suggested column map. */

@@ -24,6 +24,7 @@ const router = createBrowserRouter([
               { path: "projects", lazy: () => import("@/routes/projects/project-list") },
               { path: "projects/:projectId", lazy: () => import("@/routes/projects/project-detail") },
               { path: "platforms/:platformId", lazy: () => import("@/routes/platforms/platform-detail") },
+              { path: "datasets/:datasetId/uploads/:uploadId", lazy: () => import("@/routes/datasets/upload-map") },
               { path: "review", lazy: () => import("@/routes/review/review-queue") },
             ],
           },

@@ -17,6 +17,7 @@ export const paths = {
   project: (id: string) => `/projects/${id}`,
   platform: (id: string) => `/platforms/${id}`,
   dataset: (id: string) => `/datasets/${id}`,
+  uploadMap: (datasetId: string, uploadId: string) => `/datasets/${datasetId}/uploads/${uploadId}`,
   reviewQueue: () => "/review",
   adminUsers: () => "/admin/users",
   adminMail: () => "/admin/mail",

@@ -75,7 +75,7 @@ describe("tus upload to /api/uploads", () => {
       fetch(`${app.base}/api/uploads/${id}`, {
         method,
         headers: { ...(cookie ? { cookie } : {}), "Tus-Resumable": "1.0.0", ...(method === "PATCH" ? { "Upload-Offset": String(1 << 20), "Content-Type": "application/offset+octet-stream" } : {}) },
-        body: method === "PATCH" ? big.subarray(1 << 20, (1 << 20) + 1000) : undefined,
+        body: method === "PATCH" ? new Uint8Array(big.subarray(1 << 20, (1 << 20) + 1000)) : undefined,
       });
     for (const method of ["HEAD", "PATCH", "DELETE"]) {
       expect((await tusCall(method, null)).status, `visitor ${method}`).toBe(401);

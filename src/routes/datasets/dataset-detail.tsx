@@ -17,6 +17,7 @@ import { StateBadge } from "@/components/ui/state-badge";
 import { datasetQueryOptions, useDataset } from "@/features/datasets/api/get-dataset";
 import { EditDatasetForm } from "@/features/datasets/components/dataset-form";
 import { VersionsTable } from "@/features/datasets/components/versions-table";
+import { DatasetUploads } from "@/features/uploads/components/dataset-uploads";
 
 export function Component() {
   const { datasetId = "" } = useParams();
@@ -78,13 +79,9 @@ export function Component() {
           </Section>
 
           {member ? (
-            <Section title="Uploads" description="Logger files for this dataset.">
-              <div data-testid="uploads-area" className="rounded-lg border-2 border-dashed border-line bg-sunken/50 px-5 py-10 text-center">
-                <p className="text-lg font-semibold">Uploads arrive here</p>
-                <p className="mx-auto mt-1 max-w-prose text-muted">
-                  Resumable uploads of logger files, column mapping and processing are being added to Tauline. Until then, datasets and deployments can be
-                  prepared.
-                </p>
+            <Section title="Uploads" description="Logger files for this dataset, checked by the server when they arrive. Stored once, never changed.">
+              <div data-testid="uploads-area">
+                <DatasetUploads datasetId={d.id} canUpload={member} />
               </div>
             </Section>
           ) : null}
