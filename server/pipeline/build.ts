@@ -12,6 +12,7 @@ import { createEngine, type EngineBlock, type RunSummary } from "@shared/compute
 import { inferInterval } from "@shared/compute/timing";
 import { pool } from "../db/client";
 import { pathForKey } from "../lib/file-store";
+import { applyManualFlags } from "../services/annotations";
 import { copyHeader, copyTrailer, createRecordEncoder } from "./copy-encoder";
 import { InputError, openCanonicalStream } from "./read-csv";
 import { createSummariser, type Summariser } from "./summarise";
@@ -404,7 +405,10 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
     timings.close_s = (performance.now() - tClose) / 1000;
 
     const tSum = performance.now();
-    const sum = summariser ?? (await summariseVersion(client, L.datasetId, L.number, columns, settings));
+    // Manual flags from the dataset's annotations win over automatic ones and carry over to every build.
+    const manual = await applyManualFlags(client, L.datasetId, L.number, { settings, ctx: L.ctx, fresh: true });
+    timings.manual_flags_s = (performance.now() - tSum) / 1000;
+    const sum = summariser && manual.rowsChanged === 0 ? summariser : await summariseVersion(client, L.datasetId, L.number, columns, settings);
     const summary = sum.summary();
     await client.query(`delete from plot_series where version_id = $1`, [versionId]);
     for (const s of sum.plotSeries()) {

@@ -1,8 +1,15 @@
 import { randomUUID } from "node:crypto";
 import { beforeAll, describe, expect, test } from "vitest";
+import { eq } from "drizzle-orm";
+import { db } from "../../server/db/client";
+import { releases } from "../../server/db/schema";
+import { buildReleaseFiles } from "../../server/jobs/release-files.job";
 import { routeRules } from "../../server/lib/routes";
+import { createToken } from "../../server/services/tokens";
 import { addMembership, as, createTestUser, makeProjectWithRoles, testApp, type Role, type TestUser } from "../helpers/api";
 import { makeDataset, makeVersion } from "../helpers/curation";
+import { buildMooringVersion } from "../helpers/explore";
+import { pool } from "../../server/db/client";
 import { makeBuildVersion, makeMooringDataset, mooringMap, storeUpload } from "../helpers/pipeline";
 import { storeTestUpload } from "../helpers/uploads";
 
@@ -34,6 +41,29 @@ async function releasedVersion(i: Ids) {
   expect(res.status).toBe(201);
   return v;
 }
+
+/** One built (unreleased) version with records, shared by the explore rows. */
+let built: Promise<{ id: string; datasetId: string }> | undefined;
+const builtVersion = (i: Ids) =>
+  (built ??= (async () => {
+    const { datasetId } = await makeMooringDataset(i.projectId);
+    const v = await buildMooringVersion(datasetId, i.users.contributor, { start: Date.UTC(2026, 9, 1) / 1000, durationS: 6 * 3600, intervalS: 60 });
+    return { id: v.id, datasetId };
+  })());
+/** A fresh note on the built version's dataset (so each PATCH/DELETE has its own). */
+async function freshAnnotation(i: Ids) {
+  const { datasetId } = await builtVersion(i);
+  const r = await pool.query(`insert into annotations (dataset_id, start_time, end_time, variables, note) values ($1, '2026-10-01T01:00:00Z', '2026-10-01T02:00:00Z', '{wind_speed}', 'Matrix note') returning id`, [datasetId]);
+  return r.rows[0].id as string;
+}
+
+/** A fresh release of the matrix dataset; its id. */
+async function releaseOf(i: Ids) {
+  const v = await releasedVersion(i);
+  const [r] = await db.select({ id: releases.id }).from(releases).where(eq(releases.versionId, v));
+  return r!.id;
+}
+const sessionOf = (t: TestUser) => ({ id: t.id, name: t.name, email: t.email, emailVerified: true, isAdmin: false });
 
 const matrix: Record<string, Case> = {
   "GET /api/me": { call: () => ({ url: "/api/me" }), expect: signedIn },
@@ -154,6 +184,21 @@ const matrix: Record<string, Case> = {
     expect: adminOnly,
   },
   "GET /api/admin/mail": { call: () => ({ url: "/api/admin/mail" }), expect: adminOnly },
+  // Explore: an unreleased version's plots, records, report and track are for members (public once released).
+  "GET /api/versions/:id/plot": { call: async (i) => ({ url: `/api/versions/${(await builtVersion(i)).id}/plot?variables=wind_speed` }), expect: readMembers },
+  "GET /api/versions/:id/records": { call: async (i) => ({ url: `/api/versions/${(await builtVersion(i)).id}/records?limit=5` }), expect: readMembers },
+  "GET /api/versions/:id/qc-report": { call: async (i) => ({ url: `/api/versions/${(await builtVersion(i)).id}/qc-report` }), expect: readMembers },
+  "GET /api/versions/:id/track": { call: async (i) => ({ url: `/api/versions/${(await builtVersion(i)).id}/track` }), expect: readMembers },
+  "GET /api/datasets/:id/annotations": { call: async (i) => ({ url: `/api/datasets/${(await builtVersion(i)).datasetId}/annotations` }), expect: readMembers },
+  "POST /api/datasets/:id/annotations": {
+    call: async (i) => ({
+      url: `/api/datasets/${(await builtVersion(i)).datasetId}/annotations`,
+      body: { from: "2026-10-01T01:00:00Z", to: "2026-10-01T01:30:00Z", variables: ["wind_speed"], note: "Matrix note" },
+    }),
+    expect: createMembers,
+  },
+  "PATCH /api/annotations/:id": { call: async (i) => ({ url: `/api/annotations/${await freshAnnotation(i)}`, body: { note: "Edited" } }), expect: writeMembers },
+  "DELETE /api/annotations/:id": { call: async (i) => ({ url: `/api/annotations/${await freshAnnotation(i)}` }), expect: writeMembers },
   "GET /api/datasets/:id/uploads": { call: (i) => ({ url: `/api/datasets/${i.datasetId}/uploads` }), expect: readMembers },
   "GET /api/uploads/:id": {
     call: async (i) => ({ url: `/api/uploads/${await storeTestUpload(i.datasetId, i.users.contributor.id, "time,wspd,wdir\n2026-01-01T00:00:00Z,3.1,180\n")}` }),
@@ -167,6 +212,30 @@ const matrix: Record<string, Case> = {
     }),
     expect: createMembers,
   },
+  // Public catalogue, downloads, tokens and the API description (issue 8). Dataset rows use a fresh, unreleased dataset.
+  "GET /api/v1/catalogue": { call: () => ({ url: "/api/v1/catalogue?q=merrow&sort=title" }), expect: anyone },
+  "GET /api/v1/datasets/:id": { call: async (i) => ({ url: `/api/v1/datasets/${await makeDataset(i.projectId)}` }), expect: readMembers },
+  "GET /api/v1/datasets/:id/landing": { call: async (i) => ({ url: `/api/v1/datasets/${await makeDataset(i.projectId)}/landing` }), expect: readMembers },
+  "GET /api/v1/datasets/:id/releases": { call: async (i) => ({ url: `/api/v1/datasets/${await makeDataset(i.projectId)}/releases` }), expect: readMembers },
+  "GET /api/v1/releases/:id": { call: async (i) => ({ url: `/api/v1/releases/${await releaseOf(i)}` }), expect: anyone },
+  "GET /api/v1/releases/:id/files/:name": {
+    call: async (i) => {
+      const id = await releaseOf(i);
+      const [name] = await buildReleaseFiles(id);
+      return { url: `/api/v1/releases/${id}/files/${name}` };
+    },
+    expect: anyone,
+  },
+  "GET /api/v1/releases/:id/verify": { call: async (i) => ({ url: `/api/v1/releases/${await releaseOf(i)}/verify` }), expect: anyone },
+  "GET /api/v1/versions/:id/download": { call: async (i) => ({ url: `/api/v1/versions/${await curationVersion(i, "ready")}/download` }), expect: readMembers },
+  "GET /api/v1/tokens": { call: () => ({ url: "/api/v1/tokens" }), expect: signedIn },
+  "POST /api/v1/tokens": { call: () => ({ url: "/api/v1/tokens", body: { name: `matrix ${u()}`, scope: "read" } }), expect: { ...signedIn, outsider: 201, contributor: 201, curator: 201, admin: 201 } },
+  // Someone's own token: only its owner (the contributor here) may revoke it; to anyone else it does not exist.
+  "DELETE /api/v1/tokens/:id": {
+    call: async (i) => ({ url: `/api/v1/tokens/${(await createToken(sessionOf(i.users.contributor), { name: `matrix ${u()}`, scope: "read" })).id}` }),
+    expect: { visitor: 401, outsider: 404, contributor: 200, curator: 404, admin: 404 },
+  },
+  "GET /api/v1/openapi.json": { call: () => ({ url: "/api/v1/openapi.json" }), expect: anyone },
 };
 
 let ids: Ids;
