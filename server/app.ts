@@ -24,6 +24,8 @@ import { columnMapsApi } from "./routes/column-maps";
 import { datasetUploadsApi, uploadsApi } from "./routes/uploads";
 import { createTusMount } from "./uploads/tus";
 import { datasetVersionsApi, projectArrayApi, versionsApi } from "./routes/versions";
+import { exploreApi } from "./routes/explore";
+import { annotationsApi, datasetAnnotationsApi } from "./routes/annotations";
 
 export interface AppOptions {
   /** Sign-in attempts per window per IP (defaults from env). */
@@ -96,7 +98,7 @@ export function createApp(options: AppOptions = {}): Express {
     }
   }) as RequestHandler);
 
-  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi, datasetUploadsApi, uploadsApi, columnMapsApi, datasetVersionsApi, versionsApi, projectArrayApi]) {
+  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi, datasetUploadsApi, uploadsApi, columnMapsApi, datasetVersionsApi, versionsApi, projectArrayApi, exploreApi, datasetAnnotationsApi, annotationsApi]) {
     app.use(api.base, api.router);
   }
   app.use("/api", notFoundHandler);
