@@ -61,6 +61,8 @@ export interface Provenance {
   coastlineDeg: number | null;
   currentDepthM: number | null;
   caution: string;
+  /** The full settings snapshot the run used. */
+  settings: QcSettings;
 }
 
 /** The one-line caution shown wherever diagnostics appear (DOMAIN §13). */
@@ -97,6 +99,7 @@ export function buildProvenance(settings: QcSettings, ctx: DeploymentContext): P
     coastlineDeg: ctx.coastlineDeg ?? null,
     currentDepthM: ctx.currentDepthM ?? null,
     caution: CAUTION,
+    settings: structuredClone(settings),
   };
 }
 

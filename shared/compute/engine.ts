@@ -159,7 +159,7 @@ function windowPass(
   const roc = q.rateOfChange;
   const flat = q.flatLine;
   const spS = spike ? spike.suspect : 0, spF = spike ? spike.fail : 0;
-  const rocN = roc ? roc.n : 0, rocW = roc ? roc.windowS : 0, rocMin = roc ? roc.minCount : 0;
+  const rocN2 = roc ? roc.n * roc.n : 0, rocW = roc ? roc.windowS : 0, rocMin = roc ? roc.minCount : 0;
   const flEps = flat ? flat.epsilon : 0, flS = flat ? flat.suspectCount : 0, flF = flat ? flat.failCount : 0;
   let lastP = -1;
   let vs: VarState | null = null;
@@ -212,10 +212,11 @@ function windowPass(
         size--;
       }
       if (size >= rocMin && prev === prev) {
-        const m = sum / size;
-        const varc = sq / size - m * m;
-        const sd = varc > 0 ? Math.sqrt(varc) : 0;
-        raiseAt(F, T, i, Math.abs(x - prev) > rocN * sd ? SUSPECT : PASS, T_RATE_OF_CHANGE);
+        // |Δ| > N·σ, squared and multiplied through by size² so no division or root is needed:
+        // Δ²·size² > N²·(size·Σy² − (Σy)²), with a negative rounding residue treated as zero variance.
+        const d = x - prev;
+        const v = size * sq - sum * sum;
+        raiseAt(F, T, i, d * d * size * size > rocN2 * (v > 0 ? v : 0) && d !== 0 ? SUSPECT : PASS, T_RATE_OF_CHANGE);
       }
       if (size === cap) {
         // Grow the ring, unrolling it so the oldest value comes first.
