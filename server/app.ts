@@ -23,6 +23,12 @@ import { datasetReleasesApi, releaseActionsApi, releasesApi } from "./routes/rel
 import { columnMapsApi } from "./routes/column-maps";
 import { datasetUploadsApi, uploadsApi } from "./routes/uploads";
 import { createTusMount } from "./uploads/tus";
+import { catalogueV1Api, datasetsV1Api, releasesV1Api } from "./routes/catalogue";
+import { anonymousDownloadLimit, DOWNLOAD_PATHS, downloadsApi, releaseFilesApi } from "./routes/downloads";
+import { openApiApi } from "./routes/openapi";
+import { tokensApi } from "./routes/tokens";
+import { apiTokenAuth } from "./middleware/api-token";
+import { optionalSession } from "./middleware/require-session";
 import { datasetVersionsApi, projectArrayApi, versionsApi } from "./routes/versions";
 import { exploreApi } from "./routes/explore";
 import { annotationsApi, datasetAnnotationsApi } from "./routes/annotations";
@@ -87,6 +93,9 @@ export function createApp(options: AppOptions = {}): Express {
   app.all(["/api/uploads", "/api/uploads/{*any}"], createTusMount().handler);
 
   app.use(express.json({ limit: "1mb" }));
+  // Scripts: a bearer token stands for its owner (read only); then anonymous downloads are rate-limited.
+  app.use("/api", apiTokenAuth);
+  app.use(DOWNLOAD_PATHS, optionalSession, anonymousDownloadLimit);
 
   // GET /api/health
   app.get("/api/health", (async (_req, res) => {
@@ -98,7 +107,7 @@ export function createApp(options: AppOptions = {}): Express {
     }
   }) as RequestHandler);
 
-  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi, datasetUploadsApi, uploadsApi, columnMapsApi, datasetVersionsApi, versionsApi, projectArrayApi, exploreApi, datasetAnnotationsApi, annotationsApi]) {
+  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi, datasetUploadsApi, uploadsApi, columnMapsApi, datasetVersionsApi, versionsApi, projectArrayApi, exploreApi, datasetAnnotationsApi, annotationsApi, catalogueV1Api, datasetsV1Api, releasesV1Api, downloadsApi, releaseFilesApi, tokensApi, openApiApi]) {
     app.use(api.base, api.router);
   }
   app.use("/api", notFoundHandler);

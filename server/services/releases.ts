@@ -10,6 +10,8 @@ import { getProjectRole } from "./access";
 import { getDataset } from "./datasets";
 import { writeAudit } from "./audit";
 import { assertTransition, loadVersionContext, versionForMember, type Tx, type VersionContext } from "./curation";
+import { enqueueReleaseFiles } from "../jobs/release-files.job";
+import { logger } from "../lib/logger";
 import { appUrl, deliver, followerIds, notify, projectMemberIds } from "./notifications";
 
 export const releasePath = (releaseId: string) => `/releases/${releaseId}`;
@@ -132,6 +134,8 @@ export async function releaseVersion(user: SessionUser, versionId: string, input
     return { releaseId: id, mails };
   });
   void deliver(mails);
+  // The whole-release files (CSV, data package, Parquet) and their checksums are built by a job.
+  enqueueReleaseFiles(releaseId).catch((err) => logger.error({ err, releaseId }, "could not queue the release files"));
   return getRelease(user, releaseId);
 }
 

@@ -8,6 +8,7 @@ import { AppError } from "../lib/errors";
 import { storageDir } from "../lib/file-store";
 import { logger } from "../lib/logger";
 import type { SessionUser } from "../middleware/require-session";
+import { authenticateToken, bearerToken } from "../services/tokens";
 import { assertCanUploadTo, recordFinishedUpload } from "../services/uploads";
 import { uploadConfig } from "./config";
 import { HashingFileStore } from "./hashing-store";
@@ -18,7 +19,10 @@ type TusRequest = Parameters<NonNullable<ConstructorParameters<typeof Server>[0]
 const refuse = (status_code: number, message: string) => ({ status_code, body: `${message}\n` });
 
 function fromAppError(e: unknown): never {
-  if (e instanceof AppError) throw refuse(e.status, e.message);
+  if (e instanceof AppError) {
+    if (e.status >= 500) logger.error({ err: e.cause ?? e }, e.message);
+    throw refuse(e.status, e.message);
+  }
   if ((e as { status_code?: number }).status_code) throw e;
   logger.error({ err: e }, "upload hook failed");
   throw refuse(500, "The upload could not be handled; try again in a moment.");
@@ -35,6 +39,9 @@ function parseMetadata(header: string | null): Record<string, string> {
 }
 
 async function sessionUser(req: TusRequest): Promise<SessionUser> {
+  // Scripts upload with a personal API token of scope "upload" instead of a session cookie.
+  const bearer = bearerToken(req.headers.get("authorization"));
+  if (bearer) return (await authenticateToken(bearer, "upload")).user;
   const session = await auth.api.getSession({ headers: req.headers });
   const u = session?.user;
   if (!u || u.banned) throw refuse(401, "Sign in to upload files.");
