@@ -42,12 +42,10 @@ export async function openCanonicalStream(path: string, map: ColumnMap, opts: St
   const o: StreamOptions = typeof opts === "number" ? { chunkBytes: opts } : opts;
   const label = o.label ?? path;
   const canonicalizer = createCanonicalizer(map);
-  // Read bytes, not text: the byte count drives progress, and decoding a piece at a line break is always safe in UTF-8.
-  const stream = createReadStream(path, { highWaterMark: o.chunkBytes ?? 4 << 20 });
-  const it = stream[Symbol.asyncIterator]() as AsyncIterator<Buffer>;
-  const decoder = new TextDecoder("utf-8");
-  let bytes = 0;
+  const stream = createReadStream(path, { encoding: "utf8", highWaterMark: o.chunkBytes ?? 4 << 20 });
+  const it = stream[Symbol.asyncIterator]() as AsyncIterator<string>;
   let carry = "";
+  let firstRead = true;
   let line = 1;
   let done = false;
   const parse = (text: string) => Papa.parse<string[]>(text, { delimiter: map.delimiter }).data;
@@ -55,7 +53,7 @@ export async function openCanonicalStream(path: string, map: ColumnMap, opts: St
   /** Next piece of text holding whole lines, or null at the end. */
   const nextPiece = async (): Promise<string | null> => {
     while (!done) {
-      let r: IteratorResult<Buffer>;
+      let r: IteratorResult<string>;
       try {
         r = await it.next();
       } catch (e) {
@@ -63,12 +61,12 @@ export async function openCanonicalStream(path: string, map: ColumnMap, opts: St
       }
       if (r.done) {
         done = true;
-        carry += decoder.decode();
         break;
       }
-      bytes += r.value.length;
-      o.onBytes?.(bytes);
-      carry += decoder.decode(r.value, { stream: true });
+      o.onBytes?.(stream.bytesRead);
+      // A byte-order mark is not part of the first header name.
+      carry += firstRead && r.value.charCodeAt(0) === 0xfeff ? r.value.slice(1) : r.value;
+      firstRead = false;
       const cut = carry.lastIndexOf("\n");
       if (cut >= 0) {
         const piece = carry.slice(0, cut + 1);

@@ -44,6 +44,41 @@ export interface Gap {
   to: number;
 }
 
+/** Folds fine buckets into coarser ones (step a multiple of the fine step). O(fine buckets × variables). */
+function foldBuckets(f: Buckets, step: number, nv: number): Buckets {
+  const t0 = Math.floor(f.t0 / step) * step;
+  const k = step / f.step;
+  const off = (f.t0 - t0) / f.step;
+  const len = Math.ceil((off + f.len) / k);
+  const b: Buckets = {
+    step,
+    t0,
+    len,
+    min: [],
+    max: [],
+    sum: [],
+    n: [],
+    worst: [],
+  };
+  for (let v = 0; v < nv; v++) {
+    const mn = new Float64Array(len).fill(Infinity), mx = new Float64Array(len).fill(-Infinity), sm = new Float64Array(len), nn = new Float64Array(len), w = new Uint8Array(len);
+    for (let j = 0; j < f.len; j++) {
+      const J = Math.floor((j + off) / k);
+      if (f.min[v]![j]! < mn[J]!) mn[J] = f.min[v]![j]!;
+      if (f.max[v]![j]! > mx[J]!) mx[J] = f.max[v]![j]!;
+      sm[J]! += f.sum[v]![j]!;
+      nn[J]! += f.n[v]![j]!;
+      if (f.worst[v]![j]! > w[J]!) w[J] = f.worst[v]![j]!;
+    }
+    b.min.push(mn);
+    b.max.push(mx);
+    b.sum.push(sm);
+    b.n.push(nn);
+    b.worst.push(w);
+  }
+  return b;
+}
+
 export function createSummariser(variables: readonly string[], units: readonly string[], intervalS: number | null, gapFactor: number) {
   const nv = variables.length;
   const platforms = new Map<string, PlatformAcc>();
@@ -108,7 +143,8 @@ export function createSummariser(variables: readonly string[], units: readonly s
       let p = platforms.get(platform);
       if (!p) {
         const t = time[idx[from]!]!;
-        p = { rows: 0, first: t, last: NaN, buckets: PLOT_STEPS_S.map((s) => newBuckets(s, t)) };
+        // Only minute buckets in the hot loop; hour buckets are folded from them at the end.
+        p = { rows: 0, first: t, last: NaN, buckets: [newBuckets(PLOT_STEPS_S[0], t)] };
         platforms.set(platform, p);
       }
       // Timing and coverage.
@@ -130,10 +166,9 @@ export function createSummariser(variables: readonly string[], units: readonly s
           continue;
         }
         let c = count[v]!, mu = mean[v]!, s2 = m2[v]!, lo = min[v]!, hi = max[v]!;
-        const [b1, b2] = p.buckets as [Buckets, Buckets];
+        const b1 = p.buckets[0]!;
         const mn1 = b1.min[v]!, mx1 = b1.max[v]!, sm1 = b1.sum[v]!, n1 = b1.n[v]!, w1 = b1.worst[v]!;
-        const mn2 = b2.min[v]!, mx2 = b2.max[v]!, sm2 = b2.sum[v]!, n2 = b2.n[v]!, w2 = b2.worst[v]!;
-        const s1 = b1.step, t01 = b1.t0, s2s = b2.step, t02 = b2.t0;
+        const s1 = b1.step, t01 = b1.t0;
         for (let k = from; k < to; k++) {
           const i = idx[k]!;
           const f = F[i]!;
@@ -155,12 +190,6 @@ export function createSummariser(variables: readonly string[], units: readonly s
           sm1[j1]! += x;
           n1[j1]!++;
           if (f > w1[j1]! && f !== 9) w1[j1] = f;
-          const j2 = Math.floor((t - t02) / s2s);
-          if (x < mn2[j2]!) mn2[j2] = x;
-          if (x > mx2[j2]!) mx2[j2] = x;
-          sm2[j2]! += x;
-          n2[j2]!++;
-          if (f > w2[j2]! && f !== 9) w2[j2] = f;
         }
         count[v] = c;
         mean[v] = mu;
@@ -215,7 +244,7 @@ export function createSummariser(variables: readonly string[], units: readonly s
     /** Plot bucket arrays per platform, variable and step (empty buckets: n 0, NaN min/max/mean, worst flag 9). */
     *plotSeries(): Generator<PlotSeriesRow> {
       for (const [platform, p] of platforms) {
-        for (const b of p.buckets) {
+        for (const b of [p.buckets[0]!, foldBuckets(p.buckets[0]!, PLOT_STEPS_S[1], nv)]) {
           for (let v = 0; v < nv; v++) {
             const len = b.len;
             const mn: number[] = new Array(len);
