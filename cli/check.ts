@@ -2,13 +2,12 @@ import { createWriteStream, readFileSync } from "node:fs";
 import { once } from "node:events";
 import { columnMapSchema, type ColumnMap } from "../shared/schemas/column-map";
 import { resolveQcSettings, type QcSettingsInput } from "../shared/schemas/qc-settings";
-import { createEngine, type Engine, type EngineBlock } from "../shared/compute/engine";
-import { inferInterval } from "../shared/compute/timing";
+import type { Engine } from "../shared/compute/engine";
 import { CAUTION, type DeploymentContext } from "../shared/compute/diagnostics";
 import { dragLaws, type DragLaw } from "../shared/compute/physics";
 import { testLabels, TEST } from "../shared/compute/flags";
-import { ENGINE_SLICE, sliceChunk, type ParseWarning } from "../shared/compute/canonical";
-import { InputError, openCanonicalStream } from "./lib/read-csv";
+import { InputError } from "./lib/read-csv";
+import { processFile } from "./lib/process-file";
 import { blockToCsv, outputColumns } from "./lib/write-csv";
 
 export interface CheckOptions {
@@ -79,14 +78,9 @@ export async function runCheck(file: string, opts: CheckOptions, print: (line: s
   }
   if (opts.windHeight !== undefined && !(opts.windHeight > 0)) throw new InputError(`--wind-height must be a positive number of metres`);
 
-  const { canonicalizer, chunks } = await openCanonicalStream(file, map);
-  const variables = canonicalizer.variables;
-  if (!variables.includes("latitude") && opts.lat === undefined) print("note: no latitude column and no --lat: Coriolis and Ekman diagnostics are skipped");
+  const hasLat = map.columns.some((c) => c.variable === "latitude");
+  if (!hasLat && opts.lat === undefined) print("note: no latitude column and no --lat: Coriolis and Ekman diagnostics are skipped");
 
-  let engine: Engine | null = null;
-  const warnings: ParseWarning[] = [];
-  let warningCount = 0;
-  let inferred = NaN;
   const outStream = opts.out ? createWriteStream(opts.out) : null;
   const outError = new Promise<never>((_, reject) => outStream?.on("error", (e) => reject(new InputError(`cannot write ${opts.out}: ${(e as NodeJS.ErrnoException).code ?? e.message}`))));
   outError.catch(() => undefined);
@@ -95,36 +89,22 @@ export async function runCheck(file: string, opts: CheckOptions, print: (line: s
     if (!outStream.write(text)) await Promise.race([once(outStream, "drain"), outError]);
   };
   let headerWritten = false;
-  const emit = async (b: EngineBlock) => {
+  const multi = map.platformColumn !== undefined;
+  const result = await processFile(file, map, settings, ctx, async (b, engine, platformIds) => {
     if (!headerWritten) {
-      await write(outputColumns(engine!.variables, engine!.derivedVariables, map.platformColumn !== undefined).join(",") + "\n");
+      await write(outputColumns(engine.variables, engine.derivedVariables, multi).join(",") + "\n");
       headerWritten = true;
     }
-    await write(blockToCsv(b, engine!.variables, engine!.derivedVariables, map.platformColumn !== undefined ? canonicalizer.platformIds : null));
-  };
-
-  for await (const { chunk, warnings: w } of chunks) {
-    warningCount += w.length;
-    for (const x of w) if (warnings.length < 20) warnings.push(x);
-    if (!engine) {
-      if (settings.timing.expectedIntervalS === null) {
-        inferred = inferInterval(chunk.time, chunk.platform);
-        if (Number.isFinite(inferred)) settings.timing.expectedIntervalS = inferred;
-      }
-      // Blocks are written out before the next push, so the engine may reuse their arrays.
-      engine = createEngine(settings, ctx, variables, { reuseBlocks: true });
-    }
-    for (let s = 0; s < chunk.n; s += ENGINE_SLICE) await emit(engine.push(sliceChunk(chunk, s, Math.min(chunk.n, s + ENGINE_SLICE))));
-  }
-  if (!engine) throw new InputError(`${file}: no data rows after the header`);
-  await emit(engine.finish());
+    // blockToCsv copies the numbers into text before the engine may reuse the block's arrays.
+    await write(blockToCsv(b, engine.variables, engine.derivedVariables, multi ? platformIds : null));
+  });
   if (outStream) {
     outStream.end();
     await Promise.race([once(outStream, "finish"), outError]);
   }
-
-  const s = engine.summary();
-  if (s.rows > 0 && s.timeMin === Infinity) throw new InputError(`${file}: no record has a readable time (first problem: line ${warnings[0]?.line ?? "?"}: ${warnings[0]?.message ?? "?"})`);
+  const { engine, warnings, warningCount } = result;
+  const inferred = result.inferredIntervalS;
+  const s = result.summary;
   print(`rows: ${s.rows}${s.platforms > 1 ? ` from ${s.platforms} platforms` : ""}`);
   print(`time span: ${iso(s.timeMin)} to ${iso(s.timeMax)}`);
   if (Number.isFinite(inferred)) print(`sampling interval: ${inferred} s (inferred from the first records; gaps longer than ${settings.timing.gapFactor}× are flagged)`);
