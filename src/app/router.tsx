@@ -2,10 +2,11 @@ import { createBrowserRouter, RouterProvider } from "react-router-dom";
 import { AppShell } from "@/components/layout/app-shell";
 import { RequireAuth } from "@/components/layout/require-auth";
 import { RouteError } from "@/components/layout/route-error";
+import { NotificationBell } from "@/features/notifications/components/notification-bell";
 
 const router = createBrowserRouter([
   {
-    element: <AppShell />,
+    element: <AppShell notices={<NotificationBell />} />,
     errorElement: <RouteError />,
     children: [
       {
@@ -18,6 +19,7 @@ const router = createBrowserRouter([
           { path: "forgot-password", lazy: () => import("@/routes/auth/forgot-password") },
           { path: "reset-password", lazy: () => import("@/routes/auth/reset-password") },
           { path: "datasets/:datasetId", lazy: () => import("@/routes/datasets/dataset-detail") },
+          { path: "releases/:releaseId", lazy: () => import("@/routes/releases/release-detail") },
           {
             element: <RequireAuth />,
             children: [
@@ -26,6 +28,7 @@ const router = createBrowserRouter([
               { path: "platforms/:platformId", lazy: () => import("@/routes/platforms/platform-detail") },
               { path: "datasets/:datasetId/uploads/:uploadId", lazy: () => import("@/routes/datasets/upload-map") },
               { path: "review", lazy: () => import("@/routes/review/review-queue") },
+              { path: "review/:versionId", lazy: () => import("@/routes/review/review-version") },
             ],
           },
           {

@@ -25,7 +25,8 @@ function NavItem({ to, children, end }: { to: string; children: React.ReactNode;
   );
 }
 
-export function AppShell() {
+/** `notices` is the signed-in user's notification control, passed in by the router (features stay out of layout). */
+export function AppShell({ notices }: { notices?: React.ReactNode }) {
   const { data: me } = useMe();
   const signOut = useSignOut();
   const navigate = useNavigate();
@@ -66,6 +67,7 @@ export function AppShell() {
             <ThemeToggle />
             {me ? (
               <>
+                {notices}
                 <span className="hidden text-sm text-muted md:inline" data-testid="signed-in-as">
                   {me.user.name}
                   {me.user.isAdmin ? " · admin" : ""}

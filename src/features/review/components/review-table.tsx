@@ -20,12 +20,16 @@ export function ReviewTable({ items }: { items: ReviewQueueItem[] }) {
         {items.map((r) => (
           <Tr key={r.versionId}>
             <Td>
-              <Link to={paths.dataset(r.datasetId)} className="font-semibold">
+              <Link to={paths.reviewVersion(r.versionId)} className="font-semibold">
                 {r.datasetTitle}
               </Link>
             </Td>
             <Td>{r.projectName}</Td>
-            <Td numeric>v{r.number}</Td>
+            <Td numeric>
+              <Link to={paths.reviewVersion(r.versionId)} aria-label={`Review version ${r.number} of ${r.datasetTitle}`}>
+                v{r.number}
+              </Link>
+            </Td>
             <Td>
               <UtcTime iso={r.submittedAt} />
             </Td>
