@@ -119,6 +119,7 @@ export const derivedVocabulary = {
   surface_downward_northward_stress: d("surface_downward_northward_stress", "Northward wind stress", "Pa", "surface_downward_northward_stress"),
   magnitude_of_surface_downward_stress: d("magnitude_of_surface_downward_stress", "Wind stress magnitude", "Pa", "magnitude_of_surface_downward_stress"),
   coriolis_parameter: d("coriolis_parameter", "Coriolis parameter", "s-1", "coriolis_parameter"),
+  beta_parameter: d("beta_parameter", "Meridional gradient of the Coriolis parameter (beta)", "m-1 s-1"),
   ekman_transport_eastward: d("ekman_transport_eastward", "Eastward Ekman volume transport per unit width", "m2 s-1"),
   ekman_transport_northward: d("ekman_transport_northward", "Northward Ekman volume transport per unit width", "m2 s-1"),
   ekman_depth_empirical: d("ekman_depth_empirical", "Ekman depth, empirical (7.6·U10/√sin|φ|)", "m"),

@@ -4,6 +4,7 @@ import { FLAG, WORSE as _WORSE } from "./flags";
 import {
   airDensity as _airDensity,
   coriolis as _coriolis,
+  beta as _beta,
 
   dragLawSources,
   EARTH_RADIUS_M,
@@ -23,6 +24,7 @@ const { PASS, NOT_EVALUATED, SUSPECT, MISSING } = FLAG;
 const W = _WORSE;
 const airDensity = _airDensity;
 const coriolis = _coriolis;
+const beta = _beta;
 const ekmanDepthEmpirical = _ekmanDepthEmpirical;
 const ekmanDepthTheoretical = _ekmanDepthTheoretical;
 const ekmanSurfaceSpeed = _ekmanSurfaceSpeed;
@@ -168,9 +170,12 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
 
   if (hasLat) {
     const [fv, ff] = mk("coriolis_parameter");
+    const [bv] = mk("beta_parameter", ff); // β shares the latitude flag with f
     const fFixed = coriolis(latFixed);
+    const bFixed = beta(latFixed);
     for (let i = 0; i < n; i++) {
       fv[i] = lat ? coriolis(lat[i]!) : fFixed;
+      bv[i] = lat ? beta(lat[i]!) : bFixed;
       ff[i] = latF ? latF[i]! : PASS;
     }
   }

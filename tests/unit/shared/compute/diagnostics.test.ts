@@ -78,3 +78,11 @@ describe("per-record diagnostics", () => {
     expect(v.eastward_wind_10m_neutral![0]).toBeCloseTo(-8.6628, 4);
   });
 });
+
+test("β per record is 2Ω cos φ / a: 1.982470e-11 m⁻¹ s⁻¹ at 30° (DOMAIN §2, computed here)", () => {
+  const { v, f } = diag({ latitude: [30, -30] }, {}, { platformKind: "drifter" });
+  expect(Math.abs(v.beta_parameter![0]! / 1.98247e-11 - 1)).toBeLessThan(1e-6);
+  expect(Math.abs(v.beta_parameter![1]! / 1.98247e-11 - 1)).toBeLessThan(1e-6);
+  expect(v.coriolis_parameter![1]).toBeCloseTo(-7.292115e-5, 11);
+  expect(Array.from(f.beta_parameter!)).toEqual([1, 1]);
+});
