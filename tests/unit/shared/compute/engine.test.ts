@@ -302,3 +302,22 @@ describe("summary and provenance", () => {
     expect(engine.provenance.caution).toMatch(/not for navigation/);
   });
 });
+
+describe("edge cases", () => {
+  test("an empty chunk and an empty run give empty blocks and zero counts", () => {
+    const { out, summary } = run(defaultQcSettings(), mooring, chunk([], { wind_speed: [] }));
+    expect(out.time ?? []).toEqual([]);
+    expect(summary.rows).toBe(0);
+  });
+  test("a single record passes through with window tests not run", () => {
+    const { out } = run(defaultQcSettings(), mooring, chunk([1_700_000_000], { wind_speed: [7] }));
+    expect(out.wind_speed_qc).toEqual([1]);
+    expect(out.wind_speed_tests).toEqual([0]);
+  });
+  test("an all-missing series is flagged 9 throughout and its derived values are missing too", () => {
+    const { out } = run(defaultQcSettings(), mooring, chunk(seconds(4), { wind_speed: [NaN, NaN, NaN, NaN], wind_from_direction: [NaN, NaN, NaN, NaN] }));
+    expect(out.wind_speed_qc).toEqual([9, 9, 9, 9]);
+    expect(out.surface_downward_eastward_stress_qc).toEqual([9, 9, 9, 9]);
+    expect(out.ekman_transport_eastward!.every((x) => Number.isNaN(x))).toBe(true);
+  });
+});
