@@ -17,6 +17,8 @@ import { StateBadge } from "@/components/ui/state-badge";
 import { datasetQueryOptions, useDataset } from "@/features/datasets/api/get-dataset";
 import { EditDatasetForm } from "@/features/datasets/components/dataset-form";
 import { VersionsTable } from "@/features/datasets/components/versions-table";
+import { DatasetReleases } from "@/features/releases/components/dataset-releases";
+import { FollowButton } from "@/features/releases/components/follow-button";
 import { DatasetUploads } from "@/features/uploads/components/dataset-uploads";
 
 export function Component() {
@@ -45,7 +47,12 @@ export function Component() {
           </nav>
         }
         title={d.title}
-        actions={member && !editing ? <Button variant="secondary" onClick={() => setEditing(true)}>Edit details</Button> : null}
+        actions={
+          <>
+            {d.latestRelease || member ? <FollowButton datasetId={d.id} signedIn={!!me} /> : null}
+            {member && !editing ? <Button variant="secondary" onClick={() => setEditing(true)}>Edit details</Button> : null}
+          </>
+        }
       />
 
       {editing ? (
@@ -74,7 +81,7 @@ export function Component() {
                   : "Nothing has been released for this dataset yet."}
               </EmptyState>
             ) : (
-              <VersionsTable items={d.versions} />
+              <VersionsTable items={d.versions} linkTo={member ? (v) => paths.reviewVersion(v.id) : undefined} />
             )}
           </Section>
 
@@ -88,6 +95,10 @@ export function Component() {
         </div>
 
         <aside aria-label="Dataset details" className="space-y-4">
+          <Panel>
+            <h2 className="mb-3 font-semibold">Releases</h2>
+            <DatasetReleases datasetId={d.id} />
+          </Panel>
           <Panel>
             <h2 className="mb-3 font-semibold">Details</h2>
             <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-2 text-[0.95rem]">
