@@ -119,6 +119,7 @@ export async function runCheck(file: string, opts: CheckOptions, print: (line: s
       : "";
     print(`  ${name.padEnd(width)}  ${c![1]} / ${c![2]} / ${c![3]} / ${c![4]} / ${c![9]}${raised ? `   [${raised}]` : ""}`);
   }
+  for (const [why, count] of Object.entries(s.notes)) print(`note: ${why}: ${count} records`);
   if (warningCount) {
     print(`warnings: ${warningCount}${warningCount > warnings.length ? ` (first ${warnings.length} shown)` : ""}`);
     for (const w of warnings) print(`  line ${w.line}${w.column ? `, column ${w.column}` : ""}: ${w.message}`);

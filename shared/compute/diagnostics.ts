@@ -124,6 +124,8 @@ export type DiagnosticsPool = Map<string, { v: Float64Array; f: Uint8Array }>;
 export interface DiagnosticsOutput {
   values: Partial<Record<DerivedVariable, Float64Array>>;
   flags: Partial<Record<DerivedVariable, Uint8Array>>;
+  /** Why values were not evaluated, with record counts (e.g. the equator mask). */
+  notes: Record<string, number>;
 }
 
 const RAD = Math.PI / 180;
@@ -137,7 +139,7 @@ const RAD = Math.PI / 180;
 export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings, ctx: DeploymentContext, pool?: DiagnosticsPool): DiagnosticsOutput {
   const { n, values: V, flags: F } = input;
   const d = settings.diagnostics;
-  const out: DiagnosticsOutput = { values: {}, flags: {} };
+  const out: DiagnosticsOutput = { values: {}, flags: {}, notes: {} };
   // Pairs of components share one flag array: they always carry the same flag.
   const mk = (name: DerivedVariable, sharedFlags?: Uint8Array) => {
     let v: Float64Array;
@@ -277,12 +279,14 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
     const dtFixed = ekmanDepthTheoretical(az, coriolis(latFixed));
     const sinFixed = Math.sqrt(Math.sin(Math.abs(latFixed) * RAD));
     const sqfFixed = Math.sqrt(Math.abs(coriolis(latFixed)) * az);
+    let masked = 0;
     for (let i = 0; i < n; i++) {
       const la = lat ? lat[i]! : latFixed;
       const lf = latF ? latF[i]! : PASS;
       if (!(Math.abs(la) >= cutoff)) {
         // Near the equator (or with no usable latitude) f-divided quantities are not evaluated: NaN, flag 2.
         const mf = Number.isNaN(la) ? MISSING : NOT_EVALUATED;
+        if (mf === NOT_EVALUATED) masked++;
         eu[i] = ev[i] = de[i] = dt[i] = su[i] = sv[i] = NaN;
         euF[i] = evF[i] = deF[i] = dtF[i] = suF[i] = svF[i] = mf;
         if (up) {
@@ -323,6 +327,7 @@ export function computeDiagnostics(input: DiagnosticsInput, settings: QcSettings
         up[1][i] = vecF;
       }
     }
+    if (masked) out.notes[`Ekman quantities not evaluated within ${cutoff}° of the equator`] = masked;
   }
 
   // Current relative to the wind: a measured current if present, else the drifter's own velocity.

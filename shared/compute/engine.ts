@@ -720,6 +720,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
     const diag = computeDiagnostics({ n: m, values: block.values, flags: block.flags, drift }, settings, ctx, diagPool);
     Object.assign(block.derived, diag.values);
     Object.assign(block.derivedFlags, diag.flags);
+    for (const [k, c] of Object.entries(diag.notes)) summary.notes[k] = (summary.notes[k] ?? 0) + c;
     tally(block);
     // Shift the held-back tail to the front.
     const rest = n - m;

@@ -321,3 +321,8 @@ describe("edge cases", () => {
     expect(out.ekman_transport_eastward!.every((x) => Number.isNaN(x))).toBe(true);
   });
 });
+
+test("records masked near the equator are counted with the reason", () => {
+  const { summary } = run(defaultQcSettings(), { platformKind: "drifter" }, chunk(seconds(3, 3600), { latitude: [2, 2.01, 6], longitude: [10, 10, 10], wind_speed: [5, 5, 5], wind_from_direction: [90, 90, 90] }));
+  expect(summary.notes).toEqual({ "Ekman quantities not evaluated within 5° of the equator": 2 });
+});
