@@ -493,15 +493,24 @@ export async function openReleaseFile(user: SessionUser | null | undefined, rele
     throw new AppError("conflict", `The stored file no longer matches its release record (${size} bytes instead of ${file.sizeBytes}); it is not served`, 409);
   }
   const hash = createHash("sha256");
+  // The last chunk is held back until the whole file's hash is known: on a mismatch the response ends short of
+  // its Content-Length, so the client sees a failed download rather than bad bytes.
+  let held: Buffer | null = null;
   const checked = new Transform({
     transform(chunk: Buffer, _e, cb) {
       hash.update(chunk);
-      cb(null, chunk);
+      const out = held;
+      held = chunk;
+      cb(null, out ?? undefined);
     },
     flush(cb) {
       const got = hash.digest("hex");
-      // Ending with an error aborts the response, so the client sees a failed download rather than bad bytes.
-      cb(got === file.sha256 ? null : new Error(`release file ${releaseId}/${name}: sha256 ${got} differs from recorded ${file.sha256}`));
+      if (got !== file.sha256) {
+        const cause = new Error(`release file ${releaseId}/${name}: sha256 ${got} differs from recorded ${file.sha256}`);
+        return cb(new AppError("conflict", "The stored file no longer matches the SHA-256 fixed at release; it is not served", 409, undefined, { cause }));
+      }
+      if (held) this.push(held);
+      cb();
     },
   });
   return { file, stream: createReadStream(path).pipe(checked) };
