@@ -8,7 +8,7 @@ import { createScanner, detectEncoding, previewRows, sniffDialect, suggestColumn
 import { db } from "../db/client";
 import { columnMaps, datasets, deployments, platforms, uploadInspections, uploads, user as users } from "../db/schema";
 import { AppError, forbidden, notFound } from "../lib/errors";
-import { pathForKey, tusPartKey, uploadKey } from "../lib/file-store";
+import { pathForKey, storageDir, tusPartKey, uploadKey } from "../lib/file-store";
 import { logger } from "../lib/logger";
 import type { SessionUser } from "../middleware/require-session";
 import { assertProjectAccess } from "./access";
@@ -83,11 +83,12 @@ export async function recordFinishedUpload(store: HashingFileStore, user: Sessio
     if (scan.status === "unusable") return refuseAndDelete(scan.findings.filter((f) => f.severity === "error").map((f) => f.message).join(" "));
   }
 
-  const sha256 = await store.digest(id, size);
   const key = uploadKey(id);
   const finalPath = pathForKey(key);
-  await rename(partPath, finalPath);
   try {
+    const sha256 = await store.digest(id, size);
+    storageDir("uploads");
+    await rename(partPath, finalPath);
     await db.transaction(async (tx) => {
       await tx.insert(uploads).values({ id, datasetId, uploaderId: user.id, originalName: upload.metadata?.originalName ?? "unnamed file", storageKey: key, sizeBytes: size, sha256 });
       await tx.insert(uploadInspections).values({
@@ -102,9 +103,12 @@ export async function recordFinishedUpload(store: HashingFileStore, user: Sessio
       await writeAudit(tx, { actorId: user.id, action: "upload.recorded", entityType: "upload", entityId: id, toState: "recorded", details: { datasetId, sizeBytes: size, sha256, originalName: upload.metadata?.originalName } });
     });
   } catch (e) {
+    // Nothing half-stored: drop the file wherever it is, so the client's next HEAD finds no upload and starts over
+    // (a complete-looking part would make a resuming client believe it had finished).
     await unlink(finalPath).catch(() => undefined);
     await store.remove(id).catch(() => undefined);
-    throw new AppError("internal", "The upload arrived but could not be recorded; upload the file again.", 500, undefined, { cause: e });
+    await store.configstore.delete(id).catch(() => undefined);
+    throw new AppError("internal", "The file arrived but could not be recorded. Upload it again.", 500, undefined, { cause: e });
   }
   await store.configstore.delete(id).catch(() => undefined);
   if (!scan) void inspectStoredUpload(id);

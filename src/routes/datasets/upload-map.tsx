@@ -159,8 +159,8 @@ export function Component() {
               <dd className="break-all">{u.originalName}</dd>
               <dt className="text-muted">Size</dt>
               <dd className="num">{formatBytes(u.sizeBytes)}</dd>
-              <dt className="text-muted">SHA-256</dt>
-              <dd className="num break-all text-xs" data-testid="upload-sha256">
+              <dt className="whitespace-nowrap text-muted">SHA-256</dt>
+              <dd className="num min-w-0 break-all text-xs whitespace-normal!" data-testid="upload-sha256">
                 {u.sha256}
               </dd>
               <dt className="text-muted">By</dt>

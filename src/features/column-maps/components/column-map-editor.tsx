@@ -285,7 +285,7 @@ export function ColumnMapEditor({ header, rows, dialect, initial, initialSource,
                   </td>
                   <td className="border-b border-line/70 px-3 py-2">
                     {c.variable && !isTime && !isPlatform ? (
-                      <select aria-label={`Unit of ${name(i)}`} className={control} value={c.unit} aria-invalid={errs.some((p) => p.path.endsWith("unit")) || undefined} onChange={(e) => setChoice(i, { unit: e.target.value })}>
+                      <select aria-label={`Unit of ${name(i)}`} className={`${control} min-w-[7.5rem]`} value={c.unit} aria-invalid={errs.some((p) => p.path.endsWith("unit")) || undefined} onChange={(e) => setChoice(i, { unit: e.target.value })}>
                         {[...units, ...(units.includes(c.unit) || !c.unit ? [] : [c.unit])].map((u) => (
                           <option key={u} value={u}>
                             {u}

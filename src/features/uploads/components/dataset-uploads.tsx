@@ -1,5 +1,3 @@
-import { useNavigate } from "react-router-dom";
-import { paths } from "@/config/paths";
 import { Alert } from "@/components/ui/alert";
 import { EmptyState } from "@/components/ui/empty-state";
 import { Loading } from "@/components/ui/loading";
@@ -10,11 +8,10 @@ import { UploadsTable } from "./uploads-table";
 
 /** The dataset page's upload area: the drop zone (for contributors) and the uploads recorded so far. */
 export function DatasetUploads({ datasetId, canUpload }: { datasetId: string; canUpload: boolean }) {
-  const navigate = useNavigate();
   const { data, isPending, error } = useDatasetUploads(datasetId);
   return (
     <div className="space-y-5">
-      {canUpload ? <UploadDropzone datasetId={datasetId} savedMap={data?.savedMap ?? null} onUploaded={(id) => navigate(paths.uploadMap(datasetId, id))} /> : null}
+      {canUpload ? <UploadDropzone datasetId={datasetId} savedMap={data?.savedMap ?? null} /> : null}
       {isPending ? (
         <Loading label="Loading uploads…" />
       ) : error ? (

@@ -6,6 +6,9 @@ import "@uppy/core/css/style.min.css";
 import "@uppy/dashboard/css/style.min.css";
 import { useQueryClient } from "@tanstack/react-query";
 import { showToast } from "@/lib/toast";
+import { paths } from "@/config/paths";
+import { Alert } from "@/components/ui/alert";
+import { ButtonLink } from "@/components/ui/button";
 import { uploadKeys } from "../api/get-dataset-uploads";
 import type { LocalCheckMessage } from "../workers/local-check-protocol";
 import { LocalCheckPanel, type LocalCheckState } from "./local-check-panel";
@@ -30,15 +33,14 @@ const CHUNK_BYTES = 50 * 1024 * 1024;
  * file locally and shows its dialect, first rows, problems and a first QC pass. Picking the same file again after a
  * reload or a closed tab resumes from what the server already has.
  */
-export function UploadDropzone({ datasetId, savedMap, onUploaded }: { datasetId: string; savedMap: unknown | null; onUploaded: (uploadId: string) => void }) {
+export function UploadDropzone({ datasetId, savedMap }: { datasetId: string; savedMap: unknown | null }) {
   const qc = useQueryClient();
   const dark = useDarkClass();
   const [check, setCheck] = useState<LocalCheckState | null>(null);
   const worker = useRef<Worker | null>(null);
   const savedMapRef = useRef(savedMap);
   savedMapRef.current = savedMap;
-  const onUploadedRef = useRef(onUploaded);
-  onUploadedRef.current = onUploaded;
+  const [uploaded, setUploaded] = useState<{ id: string; name: string } | null>(null);
 
   const [uppy] = useState(() =>
     new Uppy({
@@ -52,6 +54,7 @@ export function UploadDropzone({ datasetId, savedMap, onUploaded }: { datasetId:
   useEffect(() => {
     const startCheck = (file: { name?: string; data: Blob | File }) => {
       worker.current?.terminate();
+      setUploaded(null);
       const name = file.name ?? "file";
       setCheck({ fileName: name });
       if (!(file.data instanceof File)) return;
@@ -72,11 +75,10 @@ export function UploadDropzone({ datasetId, savedMap, onUploaded }: { datasetId:
       w.postMessage({ file: file.data, savedMap: savedMapRef.current });
     };
     const onAdded = (file: { name?: string; data: Blob | File }) => startCheck(file);
-    const onSuccess = (_file: unknown, response: { uploadURL?: string }) => {
+    const onSuccess = (file: { name?: string } | undefined, response: { uploadURL?: string }) => {
       const id = (response.uploadURL ?? "").split("/").pop();
       void qc.invalidateQueries({ queryKey: uploadKeys.dataset(datasetId) });
-      showToast("Upload complete. The server checked the file; map its columns next.", "success");
-      if (id) onUploadedRef.current(id);
+      if (id) setUploaded({ id, name: file?.name ?? "the file" });
     };
     const onError = (_file: unknown, err: unknown) => showToast(tusErrorMessage(err), "error", 12000);
     uppy.on("file-added", onAdded as never);
@@ -105,6 +107,14 @@ export function UploadDropzone({ datasetId, savedMap, onUploaded }: { datasetId:
         hideProgressDetails={false}
         note="Logger exports as CSV, TSV or text, UTF-8, up to 5 GB. If the connection drops or you close the tab, pick the same file again: the upload continues where it stopped."
       />
+      {uploaded ? (
+        <Alert tone="success" title={`${uploaded.name} has arrived and is stored with its SHA-256.`}>
+          <p className="mb-2">The server has read it too. Next, check how its columns map to variables, then process it into a version.</p>
+          <ButtonLink variant="primary" to={paths.uploadMap(datasetId, uploaded.id)}>
+            Map columns and process
+          </ButtonLink>
+        </Alert>
+      ) : null}
       {check ? <LocalCheckPanel state={check} /> : null}
     </div>
   );

@@ -56,6 +56,7 @@ async function run({ file, savedMap }: LocalCheckRequest) {
   const reader = file.stream().getReader();
   let bytes = 0;
   let first = true;
+  let lastPosted = 0;
   const feed = (text: string) => {
     if (!useEngine || !canon || !settings.success) return;
     let rows = Papa.parse<string[]>(text, { delimiter: map!.delimiter }).data;
@@ -93,7 +94,10 @@ async function run({ file, savedMap }: LocalCheckRequest) {
       carry = text.slice(cut + 1);
       feed(text.slice(0, cut + 1));
     }
-    post({ type: "progress", bytes, total: file.size });
+    if (bytes - lastPosted >= 2 << 20) {
+      lastPosted = bytes;
+      post({ type: "progress", bytes, total: file.size });
+    }
   }
   const tail = decoder.decode();
   scanner.push(tail);
