@@ -581,15 +581,17 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
       const uMin = user?.min ?? -Infinity, uMax = user?.max ?? Infinity;
       const clim = q?.climatology ?? null;
       // Tests without state: syntax of the field, gross range, climatology.
-      for (let i = from; i < n; i++) {
+      const TM = time;
+      const ranged = sensor !== null || user !== null;
+      for (let i = from, end = n; i < end; i++) {
         const x = X[i]!;
         if (x !== x) {
           if (B[i]) raiseAt(F, T, i, FAIL, T_SYNTAX);
           continue;
         }
-        if (sensor || user) raiseAt(F, T, i, x < sMin || x > sMax ? FAIL : x < uMin || x > uMax ? SUSPECT : PASS, T_GROSS_RANGE);
-        if (clim && time[i] === time[i]) {
-          const m = monthOf(time[i]!);
+        if (ranged) raiseAt(F, T, i, x < sMin || x > sMax ? FAIL : x < uMin || x > uMax ? SUSPECT : PASS, T_GROSS_RANGE);
+        if (clim && TM[i] === TM[i]) {
+          const m = monthOf(TM[i]!);
           raiseAt(F, T, i, x < clim.min[m]! || x > clim.max[m]! ? SUSPECT : PASS, T_CLIMATOLOGY);
         }
       }
@@ -674,29 +676,49 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
       const FB = src ? block.flags[vars[src[1]]!]! : null;
       const TA = src ? block.tests[vars[src[0]]!]! : null;
       const TB = src ? block.tests[vars[src[1]]!]! : null;
-      for (let i = 0; i < m; i++) {
-        let w = WF[i]!;
-        let word = TT[i]! | recTests[i]!;
-        if (recFlag[i]! > w) w = recFlag[i]!;
-        if (isPos) {
-          if (posFlag[i]! > w) w = posFlag[i]!;
-          word |= posTests[i]!;
+      // Locals, not the closure's reassignable buffers, so the loops read registers.
+      const RT = recTests, RF = recFlag, PF = posFlag, PT = posTests;
+      const synFail = FAIL_BIT(T_SYNTAX);
+      if (!src && !isPos && !isDir) {
+        // The common case: a measured variable with only its own and the record's tests.
+        for (let i = 0; i < m; i++) {
+          let w = WF[i]!;
+          const r = RF[i]!;
+          if (r > w) w = r;
+          const rt = RT[i]!;
+          const word = TT[i]! | rt;
+          const x = X[i]!;
+          const a = x !== x && B[i] === 0 && (rt & synFail) === 0 ? MISSING : w === 0 ? NOT_EVALUATED : w;
+          F[i] = a;
+          T[i] = word;
+          counts[a]++;
+          if (word & 0x03ff03ff) countTests(k, word);
         }
-        const x = X[i]!;
-        let a: number;
-        if (FA) {
-          a = W[(FA[i]! << 4) | FB![i]!];
-          word |= (TA![i]! | TB![i]!) & ~CALM_BIT;
-          if (x !== x) a = MISSING;
-          else if (WF[i]! > 0) a = W[(a << 4) | WF[i]!]!;
-        } else {
-          a = aggregateFlag(w, x !== x && !B[i] && !(recTests[i]! & FAIL_BIT(T_SYNTAX)));
+      } else {
+        for (let i = 0; i < m; i++) {
+          let w = WF[i]!;
+          let word = TT[i]! | RT[i]!;
+          if (RF[i]! > w) w = RF[i]!;
+          if (isPos) {
+            if (PF[i]! > w) w = PF[i]!;
+            word |= PT[i]!;
+          }
+          const x = X[i]!;
+          let a: number;
+          if (FA) {
+            a = W[(FA[i]! << 4) | FB![i]!]!;
+            word |= (TA![i]! | TB![i]!) & ~CALM_BIT;
+            if (x !== x) a = MISSING;
+            else if (WF[i]! > 0) a = W[(a << 4) | WF[i]!]!;
+          } else {
+            a = aggregateFlag(w, x !== x && !B[i] && !(RT[i]! & synFail));
+          }
+          if (isDir && word & CALM_BIT && a === PASS) a = NOT_EVALUATED;
+          F[i] = a;
+          T[i] = word;
+          counts[a]++;
+          if (word & 0x03ff03ff) countTests(k, word);
         }
-        if (isDir && word & CALM_BIT && a === PASS) a = NOT_EVALUATED;
-        F[i] = a;
-        T[i] = word;
-        counts[a]++;
-        if (word & 0x03ff03ff) countTests(k, word);
       }
       block.values[v] = X;
       block.flags[v] = F;
