@@ -2,7 +2,7 @@ import { and, asc, desc, eq, ilike, inArray, ne, or, sql } from "drizzle-orm";
 import type { CatalogueEntry, CreateDatasetInput, Dataset, ReviewQueueItem, UpdateDatasetInput, VersionSummary } from "@shared/schemas/datasets";
 import type { platformKinds } from "@shared/schemas/platforms";
 import { db } from "../db/client";
-import { datasets, deployments, memberships, platforms, projects, user as users, versions } from "../db/schema";
+import { datasets, deployments, memberships, platforms, projects, uploads, user as users, versions } from "../db/schema";
 import { AppError, conflict, notFound, unauthenticated } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
 import { assertProjectAccess, getProjectRole } from "./access";
@@ -206,10 +206,13 @@ export async function listReviewQueue(user: SessionUser): Promise<ReviewQueueIte
     .innerJoin(datasets, eq(datasets.id, versions.datasetId))
     .innerJoin(projects, eq(projects.id, datasets.projectId))
     .leftJoin(users, eq(users.id, versions.createdBy))
+    .leftJoin(uploads, eq(uploads.id, versions.uploadId))
     .where(
       and(
         eq(versions.state, "in_review"),
         or(sql`${versions.createdBy} is null`, ne(versions.createdBy, user.id)),
+        // Whoever uploaded the file cannot review it either.
+        or(sql`${uploads.uploaderId} is null`, ne(uploads.uploaderId, user.id)),
         curated ? inArray(datasets.projectId, curated) : undefined,
       ),
     )

@@ -145,6 +145,15 @@ describe("four eyes", () => {
     expect(other.body.permissions).toMatchObject({ canDecide: true, fourEyesBlocked: false });
   });
 
+  test("the review queue leaves out a version for the curator who uploaded it", async () => {
+    const datasetId = await makeDataset(ctx.projectId);
+    const id = await makeVersion({ datasetId, state: "in_review", createdBy: ctx.users.contributor.id, uploaderId: curatorBuilder.id });
+    const mine = await as(curatorBuilder.cookie).get("/api/review-queue");
+    expect(mine.body.items.map((i: { versionId: string }) => i.versionId)).not.toContain(id);
+    const theirs = await as(ctx.users.curator.cookie).get("/api/review-queue");
+    expect(theirs.body.items.map((i: { versionId: string }) => i.versionId)).toContain(id);
+  });
+
   test("the review queue lists a version for other curators but not for its builder", async () => {
     const datasetId = await makeDataset(ctx.projectId);
     const id = await makeVersion({ datasetId, state: "in_review", createdBy: curatorBuilder.id });
