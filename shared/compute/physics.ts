@@ -56,23 +56,26 @@ export function airViscosity(tC: number): number {
  * Cost: up to 50 iterations, usually < 10.
  */
 export function dragS88(u10: number, tC = 15): { cd: number; z0: number } {
-  if (Number.isNaN(u10)) return { cd: NaN, z0: NaN };
+  const cd = dragS88Cd(u10, tC);
+  if (cd !== cd) return { cd: NaN, z0: NaN };
+  return { cd, z0: 10 * Math.exp(-KAPPA / Math.sqrt(cd)) };
+}
+
+/** `dragS88`'s drag coefficient alone, without allocating, for per-record loops. Same iteration and limits. */
+export function dragS88Cd(u10: number, tC = 15): number {
+  if (u10 !== u10) return NaN;
   const U = u10 < 0.1 ? 0.1 : u10;
-  const nu = airViscosity(Number.isNaN(tC) ? 15 : tC);
+  const nu = airViscosity(tC !== tC ? 15 : tC);
   let cd = 1.2e-3;
-  let z0 = 0;
   for (let k = 0; k < 50; k++) {
     const us = Math.sqrt(cd) * U;
-    z0 = (0.011 * us * us) / GRAVITY + (0.11 * nu) / us;
+    const z0 = (0.011 * us * us) / GRAVITY + (0.11 * nu) / us;
     const l = KAPPA / Math.log(10 / z0);
     const next = l * l;
-    if (Math.abs(next - cd) < 1e-12) {
-      cd = next;
-      break;
-    }
+    if (Math.abs(next - cd) < 1e-12) return next;
     cd = next;
   }
-  return { cd, z0 };
+  return cd;
 }
 
 /**
@@ -105,7 +108,7 @@ export function dragCoefficient(law: DragLaw, u: number, tC = 15): number {
       return w < 6 ? (0.29 + 3.1 / w + 7.7 / (w * w)) * 1e-3 : (0.6 + 0.07 * w) * 1e-3;
     }
     case "S88":
-      return dragS88(u, tC).cd;
+      return dragS88Cd(u, tC);
   }
 }
 
@@ -118,7 +121,7 @@ export function dragFunction(law: DragLaw): (u: number, tC: number) => number {
     case "LP81":
       return (u) => (u !== u ? NaN : u < 11 ? 1.2e-3 : (0.49 + 0.065 * u) * 1e-3);
     case "S88":
-      return (u, tC) => dragS88(u, tC).cd;
+      return dragS88Cd;
     default:
       return (u, tC) => dragCoefficient(law, u, tC);
   }

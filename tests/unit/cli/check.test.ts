@@ -40,7 +40,8 @@ beforeAll(() => {
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-describe("tauline check", () => {
+// Each test starts a Node process with the TypeScript loader; allow for slow shared machines.
+describe("tauline check", { timeout: 60_000 }, () => {
   test("writes one row per record in canonical units with a _qc column per variable and prints a summary", () => {
     const out = join(dir, "out.csv");
     const r = tauline("check", join(dir, "data.csv"), "--map", join(dir, "map.json"), "--wind-height", "10", "--drag-law", "LP81", "--coastline-deg", "270", "--out", out);

@@ -86,7 +86,7 @@ describe("geodesy against npm geographiclib-geodesic 2.2.0", () => {
       ),
       { numRuns: 300 },
     );
-  });
+  }, 30_000);
   // DOMAIN §10 says "about 0.5 %"; north–south steps at the equator, where the meridian's radius of curvature is
   // smallest, reach 0.56 % (found with geographiclib), so the bound asserted here is 0.6 %.
   test("haversine stays within about 0.5 % (under 0.6 %) of the geodesic for steps under 100 km (DOMAIN §10)", () => {
