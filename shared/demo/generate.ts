@@ -143,6 +143,24 @@ export function* mooringChunks(opts: MooringOptions, rowsPerChunk = 50_000): Gen
   }
 }
 
+/** The whole mooring series as one set of columns (joins `mooringChunks`). Cost O(rows). */
+export function generateMooring(opts: MooringOptions): MooringColumns {
+  const parts = [...mooringChunks(opts)];
+  const n = parts.reduce((s, c) => s + c.n, 0);
+  const keys = ["time", "wind_speed", "wind_from_direction", "gust", "air_temperature", "air_pressure", "relative_humidity", "sea_surface_temperature", "current_east", "current_north"] as const;
+  const out = { n } as MooringColumns;
+  for (const k of keys) {
+    const a = new Float64Array(n);
+    let o = 0;
+    for (const c of parts) {
+      a.set(c[k], o);
+      o += c.n;
+    }
+    out[k] = a;
+  }
+  return out;
+}
+
 function iso(t: number): string {
   return new Date(t * 1000).toISOString().replace(".000Z", "Z");
 }

@@ -1,6 +1,6 @@
 import { describe, expect, test } from "vitest";
 import Papa from "papaparse";
-import { demoFleetDefaults, demoMooringColumnMap, demoMooringDefaults, generateFleet, mooringChunks, mooringCsv } from "../../../../shared/demo/generate";
+import { demoFleetDefaults, demoMooringColumnMap, demoMooringDefaults, generateFleet, generateMooring, mooringChunks, mooringCsv } from "../../../../shared/demo/generate";
 import { columnMapSchema } from "../../../../shared/schemas/column-map";
 import { createCanonicalizer } from "../../../../shared/compute/canonical";
 import { haversine } from "../../../../shared/compute/geodesy";
@@ -14,6 +14,12 @@ describe("demo generator", () => {
     const c = [...mooringChunks({ ...small, seed: small.seed + 1 })][0]!;
     expect(Array.from(a.wind_speed)).toEqual(Array.from(b.wind_speed));
     expect(Array.from(a.wind_speed)).not.toEqual(Array.from(c.wind_speed));
+  });
+  test("the whole series equals its chunks joined, whatever the chunk size", () => {
+    const whole = generateMooring(small);
+    const pieces = [...mooringChunks(small, 97)];
+    expect(whole.n).toBe(small.durationS / small.intervalS);
+    expect(Array.from(whole.air_pressure)).toEqual(pieces.flatMap((c) => Array.from(c.air_pressure)));
   });
   test("values stay within plausible ranges and the storm drops the pressure", () => {
     const c = [...mooringChunks({ ...demoMooringDefaults })][0]!;
