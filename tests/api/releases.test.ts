@@ -161,7 +161,7 @@ describe("released data cannot be changed through SQL", () => {
     expect(await rawSqlError(text)).toBe(refused);
   });
 
-  test("refuses a release row for a version that is not approved, and a released state without a release row", async () => {
+  test("refuses a release row for a version that is not approved, and a released version without a release row", async () => {
     const datasetId = await makeDataset(ctx.projectId);
     const ready = await makeVersion({ datasetId, state: "ready" });
     expect(
@@ -171,6 +171,8 @@ describe("released data cannot be changed through SQL", () => {
         [ready, datasetId],
       ),
     ).toBe(refused);
+    expect(await rawSqlError("insert into versions (dataset_id, number, state) values ($1, 7, 'released')", [datasetId])).toBe(refused);
+    expect(await rawSqlError("insert into versions (dataset_id, number, state) values ($1, 8, 'superseded')", [datasetId])).toBe(refused);
     const approved = await makeVersion({ datasetId, state: "approved" });
     expect(await rawSqlError("update versions set state = 'released' where id = $1", [approved])).toBe(refused);
     expect(await rawSqlError("update versions set state = 'retracted' where id = $1", [approved])).toBe(refused);
