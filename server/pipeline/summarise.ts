@@ -2,11 +2,15 @@ import type { VariableStats, VersionSummaryData } from "@shared/schemas/versions
 
 /**
  * Streaming summaries of a version's rows, fed in time order per platform: per-variable statistics and flag counts,
- * time coverage and gaps, and pre-aggregated plot buckets (per minute and per hour). O(rows × variables), memory
+ * time coverage and gaps, and pre-aggregated plot buckets (per minute, folded to 5 and 15 minutes and hours). O(rows × variables), memory
  * O(buckets × variables). Statistics use the values flagged 1 (pass) or 2 (not evaluated); NaN values are skipped.
  */
 
-export const PLOT_STEPS_S = [60, 3600] as const;
+/**
+ * Plot bucket sizes, s: minutes in the hot loop, the rest folded from them at the end. Levels at most 5× apart keep any
+ * plot window's read to a few thousand buckets per series (server/services/explore.ts picks the level).
+ */
+export const PLOT_STEPS_S = [60, 300, 900, 3600] as const;
 
 interface Buckets {
   step: number;
@@ -244,7 +248,7 @@ export function createSummariser(variables: readonly string[], units: readonly s
     /** Plot bucket arrays per platform, variable and step (empty buckets: n 0, NaN min/max/mean, worst flag 9). */
     *plotSeries(): Generator<PlotSeriesRow> {
       for (const [platform, p] of platforms) {
-        for (const b of [p.buckets[0]!, foldBuckets(p.buckets[0]!, PLOT_STEPS_S[1], nv)]) {
+        for (const b of [p.buckets[0]!, ...PLOT_STEPS_S.slice(1).map((s) => foldBuckets(p.buckets[0]!, s, nv))]) {
           for (let v = 0; v < nv; v++) {
             const len = b.len;
             const mn: number[] = new Array(len);

@@ -15,6 +15,7 @@ import { frozenVersionStates, versionSummaryDataSchema, type VersionSummaryData 
 import type { VersionState } from "@shared/schemas/datasets";
 import { derivedVocabulary, vocabulary, type DerivedVariable, type MeasuredVariable } from "@shared/vocabulary";
 import { pool } from "../db/client";
+import { PLOT_STEPS_S } from "../pipeline/summarise";
 import { AppError, conflict, notFound, unauthenticated } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
 import { assertProjectAccess } from "./access";
@@ -25,8 +26,8 @@ import { assertProjectAccess } from "./access";
  * version only for the project's members and admins.
  */
 
-/** Steps (s) of the pre-aggregated plot series the pipeline writes (server/pipeline/summarise.ts PLOT_STEPS_S). */
-const SERIES_STEPS = [60, 3600] as const;
+/** Steps (s) of the pre-aggregated plot series the pipeline writes. */
+const SERIES_STEPS = PLOT_STEPS_S;
 /** States whose records are complete. */
 const READABLE: readonly VersionState[] = ["ready", "in_review", "changes_requested", "rejected", "approved", "released", "superseded"];
 
@@ -92,7 +93,9 @@ const isoOf = (s: number) => new Date(Math.round(s * 1000)).toISOString();
  */
 export function planWindow(fromS: number, toS: number, buckets: number): { source: "series" | "records"; seriesStep: number | null; stepS: number; from: number; to: number } {
   const w = Math.max((toS - fromS) / buckets, 1);
-  const seriesStep = [...SERIES_STEPS].reverse().find((s) => w >= s) ?? null;
+  // A series serves windows down to half its step (between buckets/2 and buckets points), which keeps reads of the
+  // records themselves to windows of at most buckets × step / 2 seconds.
+  const seriesStep = [...SERIES_STEPS].reverse().find((s) => w >= s / 2) ?? null;
   const stepS = seriesStep ? Math.ceil(w / seriesStep) * seriesStep : Math.ceil(w);
   const from = Math.floor(fromS / stepS) * stepS;
   const to = Math.ceil(toS / stepS) * stepS;
@@ -116,55 +119,40 @@ export async function getPlotWindow(user: SessionUser | null | undefined, id: st
 
 type Plan = ReturnType<typeof planWindow>;
 
+/** The platforms to read: the one asked for, else all of the version's (so the primary key bounds the time range). */
+const platformsOf = (v: ReadableVersion, platform: string | undefined) => (platform !== undefined ? [platform] : (v.summary?.platforms.map((p) => p.id) ?? [""]));
+
 async function seriesBuckets(v: ReadableVersion, variables: string[], platform: string | undefined, plan: Plan): Promise<PlotSeries[]> {
-  const step = plan.seriesStep!;
-  const { rows } = await pool.query(
-    `select s.variable, s.platform, s.t0, x.lo, s.min[x.lo:x.hi] as min, s.max[x.lo:x.hi] as max, s.mean[x.lo:x.hi] as mean, s.n[x.lo:x.hi] as n,
-            s.worst_flag[x.lo:x.hi] as wf
-       from plot_series s,
-            lateral (select greatest(1, floor(($4::float8 - s.t0) / s.step_s)::int + 1) as lo, ceil(($5::float8 - s.t0) / s.step_s)::int as hi) x
-      where s.version_id = $1 and s.step_s = $2 and s.variable = any($3) and ($6::text is null or s.platform = $6)
-      order by s.platform, s.variable`,
-    [v.id, step, variables, plan.from, plan.to, platform ?? null],
-  );
-  const out: PlotSeries[] = [];
-  for (const r of rows) {
-    const mn: number[] = r.min ?? [];
-    const mx: number[] = r.max ?? [];
-    const me: number[] = r.mean ?? [];
-    const nn: number[] = r.n ?? [];
-    const wf: number[] = r.wf ?? [];
-    const s: PlotSeries = { variable: r.variable, platform: r.platform, unit: unitOf(r.variable), t: [], min: [], max: [], mean: [], n: [], worstFlag: [] };
-    let cur = NaN;
-    let sum = 0;
-    for (let j = 0; j < nn.length; j++) {
-      const n = nn[j]!;
-      if (!n) continue;
-      const t = r.t0 + (r.lo - 1 + j) * step;
-      if (t < plan.from || t >= plan.to) continue;
-      const b = Math.floor(t / plan.stepS) * plan.stepS;
-      if (b !== cur) {
-        if (cur === cur) s.mean[s.mean.length - 1] = sum / s.n[s.n.length - 1]!;
-        cur = b;
-        sum = 0;
-        s.t.push(b);
-        s.min.push(mn[j]!);
-        s.max.push(mx[j]!);
-        s.mean.push(0);
-        s.n.push(0);
-        s.worstFlag.push(wf[j]!);
-      }
-      const k = s.t.length - 1;
-      if (mn[j]! < s.min[k]!) s.min[k] = mn[j]!;
-      if (mx[j]! > s.max[k]!) s.max[k] = mx[j]!;
-      if (wf[j]! > s.worstFlag[k]! && wf[j] !== 9) s.worstFlag[k] = wf[j]!;
-      s.n[k]! += n;
-      sum += me[j]! * n;
-    }
-    if (cur === cur) s.mean[s.mean.length - 1] = sum / s.n[s.n.length - 1]!;
-    out.push(s);
+  // Re-aggregate in PostgreSQL: only the window's slice of each array is unnested, and at most `buckets` rows per
+  // series come back (parsing whole float arrays in Node costs more than the query itself).
+  const { rows } = await pool.query({
+    text: `select s.variable, s.platform, floor((s.t0 + (x.lo + g.i - 2) * s.step_s) / $6) * $6 as b,
+                  min(g.mn), max(g.mx), sum(g.me * g.n) / sum(g.n), sum(g.n), max(g.wf) filter (where g.wf <> 9)
+             from plot_series s,
+                  lateral (select greatest(1, floor(($4::float8 - s.t0) / s.step_s)::int + 1) as lo, ceil(($5::float8 - s.t0) / s.step_s)::int as hi) x,
+                  lateral unnest(s.min[x.lo:x.hi], s.max[x.lo:x.hi], s.mean[x.lo:x.hi], s.n[x.lo:x.hi], s.worst_flag[x.lo:x.hi]) with ordinality as g(mn, mx, me, n, wf, i)
+            where s.version_id = $1 and s.step_s = $2 and s.variable = any($3) and ($7::text is null or s.platform = $7) and g.n > 0
+            group by 1, 2, 3 order by 2, 1, 3`,
+    values: [v.id, plan.seriesStep, variables, plan.from, plan.to, plan.stepS, platform ?? null],
+    rowMode: "array",
+  });
+  const out = new Map<string, PlotSeries>();
+  for (const r of rows as unknown[][]) {
+    const variable = r[0] as string;
+    const p = r[1] as string;
+    const key = `${p}\u0000${variable}`;
+    let s = out.get(key);
+    if (!s) out.set(key, (s = { variable, platform: p, unit: unitOf(variable), t: [], min: [], max: [], mean: [], n: [], worstFlag: [] }));
+    const t = Number(r[2]);
+    if (t < plan.from || t >= plan.to) continue;
+    s.t.push(t);
+    s.min.push(Number(r[3]));
+    s.max.push(Number(r[4]));
+    s.mean.push(Number(r[5]));
+    s.n.push(Number(r[6]));
+    s.worstFlag.push(r[7] === null ? 9 : Number(r[7]));
   }
-  return out;
+  return [...out.values()].filter((s) => s.t.length > 0);
 }
 
 async function recordBuckets(v: ReadableVersion, variables: string[], platform: string | undefined, plan: Plan): Promise<PlotSeries[]> {
@@ -180,9 +168,10 @@ async function recordBuckets(v: ReadableVersion, variables: string[], platform: 
     text: `select platform, floor(extract(epoch from time) / $4)::float8 * $4 as b, ${aggs}
              from records
             where dataset_id = $1 and valid_from <= $2 and (valid_to is null or valid_to > $2)
-              and time >= to_timestamp($5) and time < to_timestamp($6) and ($3::text is null or platform = $3)
+              and ${platformsOf(v, platform).length === 1 ? "platform = ($3::text[])[1]" : "platform = any($3::text[])"} and time >= to_timestamp($5) and time < to_timestamp($6)
             group by 1, 2 order by 1, 2`,
-    values: [v.datasetId, v.number, platform ?? null, plan.stepS, plan.from, plan.to],
+    // Platforms named explicitly, so the primary key (dataset, platform, time, …) bounds the time range.
+    values: [v.datasetId, v.number, platformsOf(v, platform), plan.stepS, plan.from, plan.to],
     rowMode: "array",
   });
   const byPlatform = new Map<string, PlotSeries[]>();
@@ -241,7 +230,8 @@ export async function getRecordsPage(user: SessionUser | null | undefined, id: s
   };
   if (input.from) where.push(`time >= ${add(input.from)}::timestamptz`);
   if (input.to) where.push(`time <= ${add(input.to)}::timestamptz`);
-  if (input.platform !== undefined) where.push(`platform = ${add(input.platform)}`);
+  const plats = platformsOf(v, input.platform);
+  where.push(plats.length === 1 ? `platform = ${add(plats[0])}` : `platform = any(${add(plats)}::text[])`);
   if (input.flags?.length) {
     const f = add(input.flags);
     where.push(`(${vars.map((x) => `${q(`${x}_qc`)} = any(${f}::smallint[])`).join(" or ")})`);

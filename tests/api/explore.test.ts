@@ -85,8 +85,13 @@ describe("GET /api/versions/:id/plot", () => {
     expect(w.stepS % 60).toBe(0);
   });
 
+  test("the 15-minute level folded from minutes keeps each bucket's true min and max", async () => {
+    const w = await checkWindow(`variables=wind_speed,air_temperature,magnitude_of_surface_downward_stress&buckets=100`, "series");
+    expect(w.stepS).toBe(900);
+  });
+
   test("fine window groups the records themselves, exactly", async () => {
-    const w = await checkWindow(`variables=wind_speed,air_temperature,magnitude_of_surface_downward_stress&from=2026-10-01T06:00:05Z&to=2026-10-01T12:00:00Z&buckets=500`, "records");
+    const w = await checkWindow(`variables=wind_speed,air_temperature,magnitude_of_surface_downward_stress&from=2026-10-01T06:00:05Z&to=2026-10-01T09:00:00Z&buckets=500`, "records");
     expect(w.stepS).toBeLessThan(60);
     // Several records per bucket, so min and max differ somewhere (the test would be vacuous otherwise).
     const s = w.series.find((x) => x.variable === "wind_speed")!;
