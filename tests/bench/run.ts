@@ -25,6 +25,7 @@ export type BenchPart = { run(ctx: BenchContext): Promise<Record<string, number 
 export const parts: Record<string, () => Promise<BenchPart>> = {
   engine: () => import("./engine"),
   pipeline: () => import("./pipeline"),
+  plot: () => import("./plot"),
 };
 
 const dir = resolve(".bench");
