@@ -20,6 +20,7 @@ const router = createBrowserRouter([
           { path: "reset-password", lazy: () => import("@/routes/auth/reset-password") },
           { path: "datasets/:datasetId", lazy: () => import("@/routes/datasets/dataset-detail") },
           { path: "releases/:releaseId", lazy: () => import("@/routes/releases/release-detail") },
+          { path: "api-docs", lazy: () => import("@/routes/api-docs/api-docs") },
           {
             element: <RequireAuth />,
             children: [

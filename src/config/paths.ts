@@ -21,6 +21,7 @@ export const paths = {
   reviewQueue: () => "/review",
   reviewVersion: (versionId: string) => `/review/${versionId}`,
   release: (releaseId: string) => `/releases/${releaseId}`,
+  apiDocs: () => "/api-docs",
   adminUsers: () => "/admin/users",
   adminMail: () => "/admin/mail",
   adminMailMessage: (id: string) => `/admin/mail/${encodeURIComponent(id)}`,

@@ -59,6 +59,7 @@ export function AppShell({ notices }: { notices?: React.ReactNode }) {
               Catalogue
             </NavItem>
             {me ? <NavItem to={paths.projects()}>My projects</NavItem> : null}
+            <NavItem to={paths.apiDocs()}>API</NavItem>
             {isCuratorAnywhere(me) ? <NavItem to={paths.reviewQueue()}>Review queue</NavItem> : null}
             {me?.user.isAdmin ? <NavItem to={paths.adminUsers()}>Users</NavItem> : null}
             {me?.user.isAdmin ? <NavItem to={paths.adminMail()}>Outgoing mail</NavItem> : null}

@@ -5,7 +5,6 @@ import { queryClient } from "@/lib/query-client";
 import { formatUtc } from "@/lib/format";
 import { showToast } from "@/lib/toast";
 import { canContribute, useMe } from "@/lib/session";
-import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
 import { EmptyState } from "@/components/ui/empty-state";
 import { FlagLegend } from "@/components/ui/flag-badge";
@@ -20,6 +19,7 @@ import { VersionsTable } from "@/features/datasets/components/versions-table";
 import { DatasetReleases } from "@/features/releases/components/dataset-releases";
 import { FollowButton } from "@/features/releases/components/follow-button";
 import { DatasetUploads } from "@/features/uploads/components/dataset-uploads";
+import { LandingMain } from "@/features/catalogue/components/landing-main";
 
 export function Component() {
   const { datasetId = "" } = useParams();
@@ -72,6 +72,8 @@ export function Component() {
       <div className="grid gap-8 lg:grid-cols-[1fr_20rem]">
         <div className="min-w-0 space-y-10">
           {d.description ? <p className="max-w-3xl whitespace-pre-line">{d.description}</p> : null}
+
+          <LandingMain datasetId={d.id} />
 
           <Section title="Versions" description="Each version is built from an upload, checked, reviewed by a curator, then released unchanged.">
             {d.versions.length === 0 ? (
@@ -136,9 +138,6 @@ export function Component() {
             <p className="mb-3 text-sm text-muted">Every value carries one of these flags; derived values take the worst flag of their inputs.</p>
             <FlagLegend />
           </Panel>
-          {!member && d.latestRelease ? (
-            <Alert tone="info">Downloads of released versions are being added. Cite the dataset title, version and licence shown here.</Alert>
-          ) : null}
         </aside>
       </div>
     </>

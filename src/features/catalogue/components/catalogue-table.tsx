@@ -1,20 +1,28 @@
 import { Link } from "react-router-dom";
-import type { CatalogueEntry } from "@shared/schemas/datasets";
+import type { CatalogueItem } from "@shared/schemas/catalogue";
 import { paths } from "@/config/paths";
 import { formatLat, formatLon, formatUtcDate } from "@/lib/format";
 import { KindLabel } from "@/components/ui/kind-label";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
 
-export function CatalogueTable({ items }: { items: CatalogueEntry[] }) {
+/** Where a dataset lies: a point, or the box its positions span. */
+function Where({ it }: { it: CatalogueItem }) {
+  const b = it.bounds;
+  if (!b) return <>—</>;
+  if (b.west === b.east && b.south === b.north) return <>{`${formatLat(b.south)}, ${formatLon(b.west)}`}</>;
+  return <>{`${formatLat(b.south)}–${formatLat(b.north)}, ${formatLon(b.west)}–${formatLon(b.east)}`}</>;
+}
+
+export function CatalogueTable({ items }: { items: CatalogueItem[] }) {
   return (
     <Table caption="Released datasets">
       <thead>
         <tr>
           <Th>Dataset</Th>
           <Th>Platform</Th>
-          <Th numeric unit="°">Latitude</Th>
-          <Th numeric unit="°">Longitude</Th>
-          <Th>Time span (UTC)</Th>
+          <Th>Position</Th>
+          <Th>Data (UTC)</Th>
+          <Th numeric>Variables</Th>
           <Th numeric>Version</Th>
           <Th>Released (UTC)</Th>
           <Th>Licence</Th>
@@ -35,10 +43,14 @@ export function CatalogueTable({ items }: { items: CatalogueEntry[] }) {
                 <KindLabel kind={e.platformKind} />
               </div>
             </Td>
-            <Td numeric>{formatLat(e.latitude)}</Td>
-            <Td numeric>{formatLon(e.longitude)}</Td>
+            <Td className="num whitespace-nowrap text-sm">
+              <Where it={e} />
+            </Td>
             <Td className="num whitespace-nowrap">
               {formatUtcDate(e.startTime)} – {formatUtcDate(e.endTime)}
+            </Td>
+            <Td numeric title={e.variables.join(", ")}>
+              {e.variables.length}
             </Td>
             <Td numeric>v{e.releasedVersion}</Td>
             <Td className="num whitespace-nowrap">{formatUtcDate(e.releasedAt)}</Td>
