@@ -1,0 +1,188 @@
+/**
+ * Bench part "download" (issue 8): the CSV download of a ~2.7-million-row version (the month-at-1-Hz demo mooring)
+ * over HTTP, against a raw `COPY (same rows, same columns) TO STDOUT WITH (FORMAT csv)` read straight from
+ * PostgreSQL, in the same run. Figures: csv_mb_per_s, copy_mb_per_s and ratio (goal ≥ 0.7), best of three each.
+ *
+ * The work runs in a child process (this file with --child) so its database pool and environment never meet
+ * other parts'. It shares the plot part's database and version ("Bench plot month"), building it once if absent.
+ */
+import { execFileSync, spawn } from "node:child_process";
+import { randomUUID } from "node:crypto";
+import { linkSync, mkdirSync, statSync } from "node:fs";
+import type { AddressInfo } from "node:net";
+import { dirname, join, resolve } from "node:path";
+import { performance } from "node:perf_hooks";
+import { Writable } from "node:stream";
+import { pipeline } from "node:stream/promises";
+import pg from "pg";
+import { to as copyTo } from "pg-copy-streams";
+import { demoMooringColumnMap, demoMooringDefaults } from "../../shared/demo/generate";
+import type { BenchContext } from "./run";
+
+const ROUNDS = 3;
+
+/** Runs the measurement in a child process and returns its figures (last stdout line). */
+export function runChild(file: string, ctx: BenchContext, env: Record<string, string> = {}): Promise<Record<string, number | string>> {
+  return new Promise((resolvePromise, reject) => {
+    const child = spawn(process.execPath, ["--import", "tsx", file, "--child"], { env: { ...process.env, BENCH_DIR: ctx.dir, ...env }, stdio: ["ignore", "pipe", "inherit"] });
+    let out = "";
+    child.stdout.on("data", (b) => (out += b));
+    child.on("exit", (code) => {
+      if (code !== 0) return reject(new Error(`${file} exited with ${code}`));
+      const last = out.trim().split("\n").at(-1) ?? "{}";
+      resolvePromise(JSON.parse(last));
+    });
+  });
+}
+
+export async function run(ctx: BenchContext) {
+  await ctx.mooringCsv();
+  return runChild(resolve("tests/bench/download.ts"), ctx);
+}
+
+const log = (m: string) => process.stderr.write(`[bench] download: ${m}\n`);
+
+/** The plot part's database and its month version, built once through the pipeline when absent. */
+export async function monthVersion(dir: string) {
+  const port = process.env.BENCH_PG_PORT ?? "55471";
+  const dbName = "tauline_bench_plot";
+  execFileSync("bash", ["scripts/pg.sh", "start", join(dir, "pg"), port, "postgres"], { stdio: "inherit" });
+  const admin = new pg.Client({ connectionString: `postgres://postgres@127.0.0.1:${port}/postgres` });
+  await admin.connect();
+  if (!(await admin.query(`select 1 from pg_database where datname = $1`, [dbName])).rowCount) await admin.query(`create database ${dbName}`);
+  await admin.end();
+  const url = `postgres://postgres@127.0.0.1:${port}/${dbName}`;
+  Object.assign(process.env, { DATABASE_URL: url, STORAGE_DIR: join(dir, "storage-plot"), LOG_LEVEL: "warn", PUBLIC_URL: "http://127.0.0.1:3999", BETTER_AUTH_URL: "http://127.0.0.1:3999" });
+  const { db, pool } = await import("../../server/db/client");
+  const { runMigrations } = await import("../../server/db/migrate");
+  await runMigrations(db);
+  const find = () =>
+    pool.query(`select v.id, v.dataset_id, v.number, (v.summary->>'rows')::int as rows from versions v join datasets d on d.id = v.dataset_id where d.title = 'Bench plot month' and v.state = 'ready'`);
+  let version = (await find()).rows[0];
+  if (!version) {
+    const csv = join(dir, `mooring-1hz-${demoMooringDefaults.seed}-${31 * 86400}.csv`);
+    const o = { ...demoMooringDefaults, intervalS: 1, durationS: 31 * 86400 };
+    const tag = randomUUID().slice(0, 8);
+    const userId = randomUUID();
+    await pool.query(`insert into "user" (id, name, email, email_verified, role) values ($1, 'Bench builder', $2, true, 'user')`, [userId, `bench-build-${tag}@tauline.invalid`]);
+    const project = (await pool.query(`insert into projects (slug, name) values ($1, 'Merrow Shelf plot bench') returning id`, [`plot-bench-${tag}`])).rows[0].id;
+    const platform = (await pool.query(`insert into platforms (project_id, name, kind) values ($1, 'Merrow plot buoy', 'mooring') returning id`, [project])).rows[0].id;
+    const deployment = (
+      await pool.query(`insert into deployments (platform_id, name, start_time, latitude, longitude, anemometer_height_m) values ($1, 'P-1', to_timestamp($2), $3, $4, 4) returning id`, [
+        platform,
+        o.start,
+        o.latitude,
+        o.longitude,
+      ])
+    ).rows[0].id;
+    const dataset = (await pool.query(`insert into datasets (project_id, deployment_id, title) values ($1, $2, 'Bench plot month') returning id`, [project, deployment])).rows[0].id;
+    const { uploadKey, pathForKey } = await import("../../server/lib/file-store");
+    const uploadId = randomUUID();
+    const key = uploadKey(uploadId);
+    mkdirSync(dirname(pathForKey(key)), { recursive: true });
+    linkSync(csv, pathForKey(key));
+    await pool.query(`insert into uploads (id, dataset_id, uploader_id, original_name, storage_key, size_bytes, sha256) values ($1, $2, $3, 'merrow-month-1hz.csv', $4, $5, $6)`, [
+      uploadId,
+      dataset,
+      userId,
+      key,
+      statSync(csv).size,
+      "0".repeat(64),
+    ]);
+    const v = (await pool.query(`insert into versions (dataset_id, number, state, upload_id, created_by) values ($1, 1, 'processing', $2, $3) returning id`, [dataset, uploadId, userId])).rows[0];
+    await pool.query(`insert into qc_runs (version_id, mode, column_map) values ($1, 'replace', $2)`, [v.id, JSON.stringify(demoMooringColumnMap())]);
+    log("building the month-at-1-Hz version (once; later runs reuse it)");
+    const { buildVersion } = await import("../../server/pipeline/build");
+    if ((await buildVersion(v.id)) !== "built") throw new Error("download bench: build failed");
+    await pool.query(`vacuum analyze records`);
+    version = (await find()).rows[0];
+  }
+  return { version: version as { id: string; dataset_id: string; number: number; rows: number }, pool };
+}
+
+/** An admin session on the app (admins may read every version). */
+export async function adminCookie(base: string, pool: pg.Pool) {
+  const origin = process.env.PUBLIC_URL!;
+  const email = `bench-${randomUUID().slice(0, 8)}@tauline.invalid`;
+  const password = "bench-reader-password-2026";
+  const up = await fetch(`${base}/api/auth/sign-up/email`, { method: "POST", headers: { "content-type": "application/json", origin }, body: JSON.stringify({ name: "Bench reader", email, password }) });
+  if (!up.ok) throw new Error(`sign-up ${up.status}`);
+  await pool.query(`update "user" set role = 'admin', email_verified = true where email = $1`, [email]);
+  const res = await fetch(`${base}/api/auth/sign-in/email`, { method: "POST", headers: { "content-type": "application/json", origin }, body: JSON.stringify({ email, password }) });
+  return res.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+}
+
+async function child() {
+  const { version, pool } = await monthVersion(process.env.BENCH_DIR!);
+  const { createApp } = await import("../../server/app");
+  const { planVersion, downloadSql } = await import("../../server/services/downloads");
+  const { downloadQuerySchema } = await import("../../shared/schemas/downloads");
+  const server = createApp({ serveClient: false }).listen(0, "127.0.0.1");
+  await new Promise((r) => server.once("listening", r));
+  const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  const cookie = await adminCookie(base, pool);
+
+  const plan = await planVersion(version.id, downloadQuerySchema.parse({}));
+  const cols = ["time", ...plan.variables.flatMap((v) => [`"${v.name}"`, `"${v.name}_qc"`])].join(", ");
+  const n = version.number;
+  const rawSql = `COPY (select ${cols} from records where dataset_id = '${version.dataset_id}' and valid_from <= ${n} and (valid_to is null or valid_to > ${n}) order by platform, time) TO STDOUT WITH (FORMAT csv, HEADER true)`;
+  // Sanity: the download's own SELECT reads the same rows.
+  if (!downloadSql(plan, "csv").includes("order by platform, time")) throw new Error("download order changed");
+
+  const sink = () => {
+    let bytes = 0;
+    return { w: new Writable({ write: (c: Buffer, _e, cb) => ((bytes += c.length), cb()) }), bytes: () => bytes };
+  };
+  const copyOnce = async () => {
+    const c = await pool.connect();
+    const s = sink();
+    const t = performance.now();
+    await pipeline(c.query(copyTo(rawSql)), s.w);
+    const ms = performance.now() - t;
+    c.release();
+    return { mb: s.bytes() / 1e6, s: ms / 1000 };
+  };
+  const csvOnce = async () => {
+    const t = performance.now();
+    const res = await fetch(`${base}/api/v1/versions/${version.id}/download?format=csv`, { headers: { cookie } });
+    if (!res.ok || !res.body) throw new Error(`download ${res.status}`);
+    let bytes = 0;
+    let lines = 0;
+    for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) {
+      bytes += chunk.length;
+      for (let i = 0; i < chunk.length; i++) if (chunk[i] === 10) lines++;
+    }
+    const ms = performance.now() - t;
+    return { mb: bytes / 1e6, s: ms / 1000, rows: lines - 1 };
+  };
+  const csvRuns = [];
+  const copyRuns = [];
+  for (let i = 0; i < ROUNDS; i++) {
+    copyRuns.push(await copyOnce());
+    csvRuns.push(await csvOnce());
+    log(`round ${i + 1}: csv ${(csvRuns[i]!.mb / csvRuns[i]!.s).toFixed(1)} MB/s (${csvRuns[i]!.mb.toFixed(0)} MB), copy ${(copyRuns[i]!.mb / copyRuns[i]!.s).toFixed(1)} MB/s (${copyRuns[i]!.mb.toFixed(0)} MB)`);
+  }
+  const best = (xs: { mb: number; s: number }[]) => Math.max(...xs.map((x) => x.mb / x.s));
+  const csv = best(csvRuns);
+  const copy = best(copyRuns);
+  server.close();
+  await pool.end();
+  const figures = {
+    rows: csvRuns[0]!.rows,
+    csv_mb: Number(csvRuns[0]!.mb.toFixed(1)),
+    csv_mb_per_s: Number(csv.toFixed(1)),
+    copy_mb_per_s: Number(copy.toFixed(1)),
+    ratio: Number((csv / copy).toFixed(2)),
+  };
+  process.stdout.write(JSON.stringify(figures) + "\n");
+}
+
+if (process.argv.includes("--child")) {
+  child().then(
+    () => process.exit(0),
+    (e) => {
+      process.stderr.write(`${e instanceof Error ? e.stack : e}\n`);
+      process.exit(1);
+    },
+  );
+}
