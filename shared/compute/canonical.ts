@@ -65,7 +65,9 @@ const digit = (s: string, i: number) => {
  * a time without a zone uses `defaultZoneS`, and is NaN when that is NaN (a syntax error). O(length).
  */
 export function parseIsoTime(text: string, defaultZoneS = NaN): number {
-  const s = text.trim();
+  const c0 = text.charCodeAt(0);
+  const cl = text.charCodeAt(text.length - 1);
+  const s = c0 <= 32 || cl <= 32 ? text.trim() : text;
   if (s.length < 16 || s.charCodeAt(4) !== 45 || s.charCodeAt(7) !== 45 || s.charCodeAt(13) !== 58) return NaN;
   const sep = s.charCodeAt(10);
   if (sep !== 84 && sep !== 32 && sep !== 116) return NaN;
@@ -182,6 +184,8 @@ export function createCanonicalizer(map: ColumnMap): Canonicalizer {
           ? (t) => (t.trim() === "" ? NaN : Number(t) / 1000)
           : compileTimePattern(fmt, Number.isNaN(zoneS) ? NaN : zoneS);
   const missing = new Set(map.missingValues.map((m) => m.trim()));
+  // Codes such as -999 are compared as numbers first, then as text, so "-999.5" is not taken for "-999".
+  const numericMissing = [...missing].map(Number).filter((m) => Number.isFinite(m) && m !== 0);
   const comma = map.decimalMark === ",";
   const variables = map.columns.map((c) => resolveVariable(c.variable)!.canonical);
   const platformIds: string[] = [];
@@ -291,18 +295,23 @@ export function createCanonicalizer(map: ColumnMap): Canonicalizer {
         }
         for (let c = 0; c < cols.length; c++) {
           const { b, v, k } = cols[c]!;
-          let f = row[b.index]!;
-          const tf = f.trim();
-          if (tf === "" || missing.has(tf)) {
+          const f = row[b.index]!;
+          // Parse first and look at missing codes only when needed: most fields are plain numbers.
+          const x = f.length === 0 ? NaN : Number(comma ? f.replace(",", ".") : f);
+          if (x !== x || x === 0 || x === Infinity || x === -Infinity) {
+            const tf = f.trim();
+            if (tf === "" || missing.has(tf)) {
+              v[j] = NaN;
+              continue;
+            }
+            if (x !== 0) {
+              v[j] = NaN;
+              k[j] = 1;
+              warnings.push({ line: ln, column: b.name, message: `unreadable number "${tf}"` });
+              continue;
+            }
+          } else if (numericMissing.length !== 0 && numericMissing.includes(x) && missing.has(f.trim())) {
             v[j] = NaN;
-            continue;
-          }
-          if (comma) f = tf.replace(",", ".");
-          const x = Number(f);
-          if (Number.isNaN(x)) {
-            v[j] = NaN;
-            k[j] = 1;
-            warnings.push({ line: ln, column: b.name, message: `unreadable number "${tf}"` });
             continue;
           }
           const y = x * b.scale + b.offset;

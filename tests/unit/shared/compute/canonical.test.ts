@@ -83,6 +83,16 @@ describe("canonicalizer", () => {
     expect(Array.from(b.platform!)).toEqual([1]);
     expect(c.platformIds).toEqual(["B", "A"]);
   });
+  test("numeric missing codes match exactly; zero, blanks and infinities are told apart", () => {
+    const c = createCanonicalizer(map({ columns: [{ column: "t", variable: "air_temperature", unit: "degC" }] }));
+    c.bindHeader(["time", "t"], 1);
+    const rows = ["-999", "-999.5", "0", "   ", "Infinity", "NA", " 12.5 "].map((v, i) => [`2024-01-01T00:0${i}:00Z`, v]);
+    const { chunk, warnings } = c.convert(rows, 2);
+    const got = Array.from(chunk.values.air_temperature!).map((v) => (Number.isNaN(v) ? null : Number((v - 273.15).toFixed(6))));
+    expect(got).toEqual([null, -999.5, 0, null, null, null, 12.5]);
+    expect(Array.from(chunk.bad.air_temperature!)).toEqual([0, 0, 0, 0, 1, 0, 0]);
+    expect(warnings).toEqual([{ line: 6, column: "t", message: 'unreadable number "Infinity"' }]);
+  });
   test("a short row is a syntax error for the whole record", () => {
     const c = createCanonicalizer(map({ columns: [{ column: "ws", variable: "wind_speed", unit: "m s-1" }] }));
     c.bindHeader(["time", "ws"], 1);
