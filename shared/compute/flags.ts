@@ -13,7 +13,9 @@ export const flagMeanings = "pass not_evaluated suspect fail missing_data";
 
 /**
  * One bit per QC test. A variable's `tests` word (Uint32Array per record) sets bit `t` when test t raised
- * suspect and bit `16 + t` when it raised fail, so a report can say which test flagged what.
+ * suspect and bit `16 + t` when it raised fail, so a report can say which test flagged what. Bit 31 on a wind
+ * direction marks calm wind (speed below the calm setting), the reason its flag is 2. Record-level tests (gap,
+ * syntax) appear on every variable of the record; location and implied speed on latitude and longitude.
  */
 export const TEST = {
   GAP: 0,
