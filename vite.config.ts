@@ -31,7 +31,8 @@ export default defineConfig({
     projects: [
       {
         extends: true,
-        test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node" },
+        // Property tests over thousands of chunk splits: give them room on a busy 2-core machine.
+        test: { name: "unit", include: ["tests/unit/**/*.test.ts"], environment: "node", testTimeout: 60_000 },
       },
       {
         extends: true,
