@@ -16,9 +16,8 @@ import type { VersionState } from "@shared/schemas/datasets";
 import { derivedVocabulary, vocabulary, type DerivedVariable, type MeasuredVariable } from "@shared/vocabulary";
 import { pool } from "../db/client";
 import { PLOT_STEPS_S } from "../pipeline/summarise";
-import { AppError, conflict, notFound, unauthenticated } from "../lib/errors";
+import { AppError, conflict, forbidden, notFound, unauthenticated } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
-import { assertProjectAccess } from "./access";
 
 /**
  * Reading a version's records for people: plot windows (min/max per bucket), records pages, the QC report and the
@@ -49,9 +48,13 @@ const q = (col: string) => `"${col.replace(/"/g, "")}"`;
 
 /** Loads a version the caller may read (404/401/403 as for GET /api/versions/:id); 409 when it has no records yet. */
 export async function loadReadableVersion(user: SessionUser | null | undefined, id: string): Promise<ReadableVersion> {
+  // One round trip for the version and the caller's membership (plot requests are frequent and must stay fast).
   const { rows } = await pool.query(
-    `select v.id, v.number, v.state, v.dataset_id, d.project_id, v.summary from versions v join datasets d on d.id = v.dataset_id where v.id = $1`,
-    [id],
+    `select v.id, v.number, v.state, v.dataset_id, d.project_id, v.summary, m.role
+       from versions v join datasets d on d.id = v.dataset_id
+       left join memberships m on m.project_id = d.project_id and m.user_id = $2
+      where v.id = $1`,
+    [id, user?.id ?? null],
   );
   const r = rows[0];
   if (!r) {
@@ -59,7 +62,11 @@ export async function loadReadableVersion(user: SessionUser | null | undefined, 
     throw notFound("Version");
   }
   const isPublic = (frozenVersionStates as readonly string[]).includes(r.state) && r.state !== "retracted";
-  if (!isPublic) await assertProjectAccess(user, r.project_id, "read");
+  // Same rule as assertProjectAccess(user, project, "read"): members and admins.
+  if (!isPublic) {
+    if (!user) throw unauthenticated();
+    if (!user.isAdmin && !r.role) throw forbidden("You are not a member of this project");
+  }
   if (!READABLE.includes(r.state)) throw conflict(`Version ${r.number} is ${r.state.replace("_", " ")}; it has no records to show${r.state === "processing" ? " yet" : ""}`);
   const s = versionSummaryDataSchema.safeParse(r.summary);
   const summary = s.success ? s.data : null;
