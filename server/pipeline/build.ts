@@ -162,6 +162,8 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
   let rowsDone = 0;
   let cancelled = false;
   let loaded: Loaded | null = null;
+  // An open COPY must be aborted (CopyFail) before the connection can run anything else, even a rollback.
+  let abortCopy: (() => Promise<void>) | null = null;
   try {
     await client.query("begin");
     await client.query("set local application_name = 'tauline-build'");
@@ -238,7 +240,12 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
 
     const inputVars = canonicalizer.variables;
     const engine = createEngine(settings, L.ctx, inputVars);
-    const columns = [...engine.variables, ...engine.derivedVariables] as string[];
+    // A variable the engine knows but the records table does not yet have (vocabulary ahead of migrations) is left
+    // out with a warning rather than failing the build.
+    const stored = await recordColumns(client);
+    const engineColumns = [...engine.variables, ...engine.derivedVariables] as string[];
+    const columns = engineColumns.filter((c) => stored.has(c) && stored.has(`${c}_qc`));
+    const unstored = engineColumns.filter((c) => !columns.includes(c));
     const encoder = createRecordEncoder(L.datasetId, L.number, columns, keys);
     const summariser: Summariser | null =
       L.mode === "replace" ? createSummariser(columns, columns.map(unitOf), settings.timing.expectedIntervalS, settings.timing.gapFactor) : null;
@@ -294,6 +301,10 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
       copy.on("error", reject);
     });
     copyDone.catch(() => undefined);
+    abortCopy = async () => {
+      copy.destroy(new BuildCancelled("build stopped"));
+      await copyDone.catch(() => undefined);
+    };
     const write = async (buf: Buffer) => {
       if (!copy.write(buf) && copy.writableLength > 32 << 20) await Promise.race([once(copy, "drain"), copyDone]);
     };
@@ -345,8 +356,8 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
       }
     };
 
-    const warnings: QcRunReport["warnings"] = [];
-    let warningCount = 0;
+    const warnings: QcRunReport["warnings"] = unstored.length ? [{ line: 0, message: `not stored (no records column yet): ${unstored.join(", ")}` }] : [];
+    let warningCount = warnings.length;
     const note = (w: { line: number; column?: string; message: string }[]) => {
       warningCount += w.length;
       for (const x of w) if (warnings.length < 50) warnings.push(x);
@@ -364,6 +375,7 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
     await emit(engine.finish());
     copy.end(copyTrailer());
     await copyDone;
+    abortCopy = null;
     timings.read_compute_copy_s = (performance.now() - tRead) / 1000;
     if (cancelled) throw new BuildCancelled();
 
@@ -461,6 +473,7 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
   } catch (e) {
     if (ticker) clearInterval(ticker);
     await tick;
+    if (abortCopy && !clientBroken) await abortCopy();
     if (!clientBroken) await client.query("rollback").catch(() => undefined);
     if (e instanceof BuildCancelled) {
       await finishUnbuilt(versionId, "cancelled", { message: "Processing was cancelled; retry to run it again" });
@@ -475,6 +488,15 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
     client.off("error", onClientError);
     client.release(clientBroken ?? undefined);
   }
+}
+
+let recordColumnSet: Set<string> | undefined;
+async function recordColumns(client: pg.PoolClient): Promise<Set<string>> {
+  if (!recordColumnSet) {
+    const r = await client.query<{ column_name: string }>(`select column_name from information_schema.columns where table_schema = current_schema() and table_name = 'records'`);
+    recordColumnSet = new Set(r.rows.map((x) => x.column_name));
+  }
+  return recordColumnSet;
 }
 
 /** Marks a version that will not be built: failed (with the reason) or cancelled. */

@@ -1,9 +1,14 @@
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { versionDetailSchema } from "@shared/schemas/versions";
+import { versionDetailSchema, versionProgressSchema } from "@shared/schemas/versions";
+import { pool } from "../../server/db/client";
 import { stopSender } from "../../server/jobs/queue";
 import { as, makeProjectWithRoles } from "../helpers/api";
 import { countRows, makeMooringDataset, mooringMap, mooringText, startWorker, storeUpload, versionRows, waitForVersion, type WorkerHandle } from "../helpers/pipeline";
 
+/**
+ * The processing pipeline end to end with a real worker process: builds, appends, the seam, determinism, cancel,
+ * failures that leave nothing behind, and the released-records trigger (raw SQL).
+ */
 let worker: WorkerHandle;
 let roles: Awaited<ReturnType<typeof makeProjectWithRoles>>;
 beforeAll(async () => {
@@ -11,31 +16,195 @@ beforeAll(async () => {
   worker = await startWorker();
 });
 afterAll(async () => {
+  if (process.env.PIPELINE_WORKER_LOG) (await import("node:fs")).writeFileSync(process.env.PIPELINE_WORKER_LOG, worker?.output() ?? "");
   await worker?.stop();
   await stopSender();
 });
 
 const day = Date.UTC(2026, 9, 1) / 1000;
+const iso = (t: number) => new Date(t * 1000).toISOString().replace(".000Z", "Z");
+const ALL = ["wind_speed", "wind_speed_qc", "wind_from_direction_qc", "air_temperature", "air_temperature_qc", "surface_downward_eastward_stress", "surface_downward_eastward_stress_qc"];
+
+async function build(datasetId: string, text: string, mode: "replace" | "append", extra: object = {}) {
+  const { contributor } = roles.users;
+  const uploadId = await storeUpload(datasetId, contributor.id, text);
+  const res = await as(contributor.cookie).post(`/api/datasets/${datasetId}/versions`).send({ uploadId, columnMap: mooringMap(), mode, ...extra });
+  expect(res.status, JSON.stringify(res.body)).toBe(201);
+  const v = await waitForVersion(res.body.id, ["ready", "failed"]);
+  const detail = versionDetailSchema.parse((await as(contributor.cookie).get(`/api/versions/${res.body.id}`)).body);
+  return { id: res.body.id as string, number: res.body.number as number, state: v.state, detail };
+}
+
+/** A gentle wind series at `dt` s with an optional spike (m s-1 added) at given times; other columns steady. */
+function windText(start: number, n: number, dt: number, spikes: Record<number, number> = {}) {
+  let s = "time,wspd,wdir,gust,airt,baro,rh,sst,cur_e,cur_n\n";
+  for (let i = 0; i < n; i++) {
+    const t = start + i * dt;
+    const w = 6 + 2 * Math.sin(t / 5000) + (spikes[t] ?? 0);
+    s += `${iso(t)},${w.toFixed(2)},${(200 + 20 * Math.sin(t / 7000)).toFixed(1)},${(w * 1.3).toFixed(2)},${(15 + Math.sin(t / 9000)).toFixed(2)},${(1013 + Math.sin(t / 11000)).toFixed(2)},${(75 + 5 * Math.sin(t / 8000)).toFixed(1)},${(17 + 0.2 * Math.sin(t / 13000)).toFixed(3)},${(10 * Math.sin(t / 6000)).toFixed(2)},${(5 * Math.cos(t / 6000)).toFixed(2)}\n`;
+  }
+  return s;
+}
 
 describe("POST /api/datasets/:id/versions", () => {
-  test("builds a version from an upload: records, summary and plot buckets", async () => {
+  test("builds a version from an upload: records in canonical units, summary and plot buckets", async () => {
+    const { datasetId } = await makeMooringDataset(roles.projectId);
+    const v = await build(datasetId, mooringText({ start: day, durationS: 86400, intervalS: 60 }), "replace");
+    expect(v.state, JSON.stringify(v.detail.progress?.error)).toBe("ready");
+    expect(v.detail.summary!.rows).toBe(1440);
+    expect(v.detail.summary!.coverage).toBe(1);
+    expect(v.detail.progress!.percent).toBe(100);
+    expect(v.detail.qcRun!.rowsWritten).toBe(1440);
+    expect(await countRows(datasetId)).toBe(1440);
+    const rows = await versionRows(datasetId, 1, ["wind_speed", "air_temperature"]);
+    expect(rows[0]!.t).toBe(day);
+    // degC in the file → K in records (canonical unit, shared/vocabulary.ts).
+    expect(Number(rows[0]!.air_temperature)).toBeGreaterThan(270);
+    const series = await pool.query(`select platform, step_s, array_length(n, 1) as len, t0 from plot_series where version_id = $1 and variable = 'wind_speed' order by step_s`, [v.id]);
+    const len = (step: number) => series.rows.find((r) => r.step_s === step)?.len;
+    expect(len(60)).toBe(1440);
+    expect(len(3600)).toBe(24);
+  });
+
+  test("refuses an upload of another dataset (forged id) and an append with nothing to append to", async () => {
+    const { contributor } = roles.users;
+    const a = await makeMooringDataset(roles.projectId);
+    const b = await makeMooringDataset(roles.projectId);
+    const foreign = await storeUpload(b.datasetId, contributor.id, windText(day, 10, 60));
+    const res = await as(contributor.cookie).post(`/api/datasets/${a.datasetId}/versions`).send({ uploadId: foreign, columnMap: mooringMap(), mode: "replace" });
+    expect(res.status).toBe(404);
+    const own = await storeUpload(a.datasetId, contributor.id, windText(day, 10, 60));
+    const app = await as(contributor.cookie).post(`/api/datasets/${a.datasetId}/versions`).send({ uploadId: own, columnMap: mooringMap(), mode: "append" });
+    expect(app.status).toBe(409);
+    expect(app.body.error.message).toMatch(/replace/);
+    const bad = await as(contributor.cookie).post(`/api/datasets/${a.datasetId}/versions`).send({ uploadId: own, columnMap: mooringMap(), mode: "replace", qcSettings: { timing: { gapFactor: 0.1 } } });
+    expect(bad.status).toBe(400);
+    expect(Object.keys(bad.body.error.fields ?? bad.body.error.details ?? {})).toContain("qcSettings.timing.gapFactor");
+    expect(await countRows(a.datasetId)).toBe(0);
+  });
+
+  test("re-running a build with the same inputs and settings gives identical flags and values", async () => {
+    const text = windText(day, 3000, 60, { [day + 600 * 60]: 25 });
+    const a = await makeMooringDataset(roles.projectId);
+    const b = await makeMooringDataset(roles.projectId);
+    await build(a.datasetId, text, "replace");
+    await build(b.datasetId, text, "replace");
+    const ra = await versionRows(a.datasetId, 1, ALL);
+    const rb = await versionRows(b.datasetId, 1, ALL);
+    expect(ra.length).toBe(3000);
+    expect(rb).toEqual(ra);
+    expect(ra.find((r) => r.t === day + 600 * 60)!.wind_speed_qc).toBe(4);
+  });
+
+  test("append: the upload wins where times overlap, replaced rows are counted, the base version is unchanged", async () => {
+    const { datasetId } = await makeMooringDataset(roles.projectId);
+    const v1 = await build(datasetId, windText(day, 2000, 60), "replace");
+    const before = await versionRows(datasetId, 1, ALL);
+    // The new upload starts 500 records before v1 ends, with other wind values.
+    const start2 = day + 1500 * 60;
+    const text2 = windText(start2, 1000, 60).replace(/^(\S+?),(\d+\.\d+),/gm, (_m, t, w) => (t === "time" ? _m : `${t},${(Number(w) + 1).toFixed(2)},`));
+    const v2 = await build(datasetId, text2, "append");
+    expect(v2.state, JSON.stringify(v2.detail.progress?.error)).toBe("ready");
+    expect(v2.detail.baseVersionNumber).toBe(v1.number);
+    expect(v2.detail.qcRun!.rowsReplaced).toBe(500);
+    expect(v2.detail.summary!.rows).toBe(2500);
+    const after = await versionRows(datasetId, 2, ALL);
+    expect(after.length).toBe(2500);
+    const at = (rows: typeof after, t: number) => rows.find((r) => r.t === t)!;
+    expect(Number(at(after, start2 + 60).wind_speed)).toBeCloseTo(Number(at(before, start2 + 60).wind_speed) + 1, 2);
+    // Version 1 still sees exactly what it saw.
+    expect(await versionRows(datasetId, 1, ALL)).toEqual(before);
+    // Storage grows with the change: 2000 + 1000 new + the re-evaluated seam record.
+    expect(await countRows(datasetId)).toBe(3001);
+  });
+
+  test("the seam: a spike on the last record of one month is caught when the next month is appended", async () => {
+    const { datasetId } = await makeMooringDataset(roles.projectId);
+    const n1 = 1440;
+    const last = day + (n1 - 1) * 60;
+    await build(datasetId, windText(day, n1, 60, { [last]: 20 }), "replace");
+    const v1 = await versionRows(datasetId, 1, ["wind_speed_qc"]);
+    // At the end of a series the spike test cannot judge the last value (it needs the next one).
+    expect(v1.find((r) => r.t === last)!.wind_speed_qc).not.toBe(4);
+    // Next month also starts with a spike on its first record.
+    const first2 = last + 60;
+    const v2 = await build(datasetId, windText(first2, n1, 60, { [first2 + 600]: 20 }), "append");
+    expect(v2.state).toBe("ready");
+    const rows = await versionRows(datasetId, 2, ["wind_speed_qc"]);
+    expect(rows.length).toBe(2 * n1);
+    expect(rows.find((r) => r.t === last)!.wind_speed_qc).toBe(4);
+    expect(rows.find((r) => r.t === first2 + 600)!.wind_speed_qc).toBe(4);
+    // The neighbour after the seam is not taken for a spike (rate of change may call the step back suspect).
+    expect(rows.find((r) => r.t === first2)!.wind_speed_qc).not.toBe(4);
+  });
+
+  test("a failed build names the problem and leaves no records behind", async () => {
+    const { datasetId } = await makeMooringDataset(roles.projectId);
+    const text = windText(day, 50, 60).replace("wspd", "wind_ms");
+    const v = await build(datasetId, text, "replace");
+    expect(v.state).toBe("failed");
+    expect(v.detail.progress!.runState).toBe("failed");
+    expect(v.detail.progress!.error!.message).toMatch(/Column "wspd".*not in the header on line 1/);
+    expect(v.detail.progress!.error!.line).toBe(1);
+    expect(await countRows(datasetId)).toBe(0);
+    // Every line without a readable time: failed, with the first problem's line and column.
+    const { datasetId: d2 } = await makeMooringDataset(roles.projectId);
+    const v2 = await build(d2, "time,wspd,wdir,gust,airt,baro,rh,sst,cur_e,cur_n\nyesterday,1,2,3,4,1000,6,7,8,9\n", "replace");
+    expect(v2.state).toBe("failed");
+    expect(v2.detail.progress!.error).toMatchObject({ line: 2, column: "time" });
+    expect(await countRows(d2)).toBe(0);
+  });
+
+  test("cancel stops a running build, keeps nothing, and retry builds it", async () => {
     const { contributor } = roles.users;
     const { datasetId } = await makeMooringDataset(roles.projectId);
-    const uploadId = await storeUpload(datasetId, contributor.id, mooringText({ start: day, durationS: 86400, intervalS: 60 }));
+    const uploadId = await storeUpload(datasetId, contributor.id, mooringText({ start: day, durationS: 86400, intervalS: 1 }));
     const res = await as(contributor.cookie).post(`/api/datasets/${datasetId}/versions`).send({ uploadId, columnMap: mooringMap(), mode: "replace" });
-    expect(res.status, JSON.stringify(res.body)).toBe(201);
-    expect(res.body).toMatchObject({ number: 1, state: "processing" });
-    await waitForVersion(res.body.id, ["ready", "failed"]);
-    const detail = await as(contributor.cookie).get(`/api/versions/${res.body.id}`);
-    expect(detail.status).toBe(200);
-    const v = versionDetailSchema.parse(detail.body);
-    expect(v.state, JSON.stringify(v.progress?.error)).toBe("ready");
-    expect(v.summary!.rows).toBe(1440);
-    expect(v.progress!.percent).toBe(100);
-    expect(await countRows(datasetId)).toBe(1440);
-    const rows = await versionRows(datasetId, 1, ["wind_speed", "wind_speed_qc", "air_temperature"]);
-    expect(rows[0]!.t).toBe(day);
-    // degC in the file → K in records (canonical unit).
-    expect(Number(rows[0]!.air_temperature)).toBeGreaterThan(270);
+    expect(res.status).toBe(201);
+    const id = res.body.id as string;
+    const until = Date.now() + 30_000;
+    for (;;) {
+      const p = versionProgressSchema.parse((await as(contributor.cookie).get(`/api/versions/${id}/progress`)).body);
+      if (p.runState === "running" && p.rowsDone > 0) break;
+      if (Date.now() > until || p.versionState !== "processing") throw new Error(`build did not start running: ${JSON.stringify(p)}`);
+      await new Promise((r) => setTimeout(r, 50));
+    }
+    const c = await as(contributor.cookie).post(`/api/versions/${id}/cancel`).send({});
+    expect(c.status).toBe(200);
+    await waitForVersion(id, ["failed", "ready"]);
+    const p = versionProgressSchema.parse((await as(contributor.cookie).get(`/api/versions/${id}/progress`)).body);
+    expect(p).toMatchObject({ versionState: "failed", runState: "cancelled" });
+    expect(await countRows(datasetId)).toBe(0);
+    expect((await as(contributor.cookie).post(`/api/versions/${id}/cancel`).send({})).status).toBe(409);
+    const r = await as(contributor.cookie).post(`/api/versions/${id}/retry`).send({});
+    expect(r.status).toBe(200);
+    expect(r.body.versionState).toBe("processing");
+    expect((await waitForVersion(id, ["ready", "failed"], 120_000)).state).toBe("ready");
+    expect(await countRows(datasetId)).toBe(86400);
+  }, 240_000);
+});
+
+describe("records of released versions (database trigger, raw SQL)", () => {
+  test("refuses UPDATE and DELETE that would change a released version, allows closing rows after it", async () => {
+    const { datasetId } = await makeMooringDataset(roles.projectId);
+    const v1 = await build(datasetId, windText(day, 100, 60), "replace");
+    // Released the way users release: submit, a curator approves and releases.
+    expect((await as(roles.users.contributor.cookie).post(`/api/versions/${v1.id}/submit`).send({})).status).toBe(200);
+    expect((await as(roles.users.curator.cookie).post(`/api/versions/${v1.id}/approve`).send({})).status).toBe(200);
+    const rel = await as(roles.users.curator.cookie).post(`/api/versions/${v1.id}/release`).send({});
+    expect(rel.status, JSON.stringify(rel.body)).toBeLessThan(300);
+    const ts = `'${iso(day)}'`;
+    await expect(pool.query(`update records set wind_speed = 99 where dataset_id = $1 and time = ${ts}`, [datasetId])).rejects.toThrow(/released version 1/);
+    await expect(pool.query(`update records set wind_speed_qc = 4 where dataset_id = $1`, [datasetId])).rejects.toThrow(/released version 1/);
+    await expect(pool.query(`delete from records where dataset_id = $1`, [datasetId])).rejects.toThrow(/released version 1/);
+    await expect(pool.query(`update records set valid_to = 1 where dataset_id = $1`, [datasetId])).rejects.toThrow();
+    await expect(pool.query(`truncate records`)).rejects.toThrow(/truncated/);
+    // Closing a row at version 2 does not change what version 1 sees: allowed (that is how version 2 replaces it).
+    const ok = await pool.query(`update records set valid_to = 2 where dataset_id = $1 and time = ${ts}`, [datasetId]);
+    expect(ok.rowCount).toBe(1);
+    // Reopening it would change nothing for version 1 either; moving it into version 1's past would.
+    await expect(pool.query(`update records set valid_from = 2, valid_to = null where dataset_id = $1 and time = ${ts}`, [datasetId])).rejects.toThrow(/released version 1/);
+    await expect(pool.query(`delete from datasets where id = $1`, [datasetId])).rejects.toThrow();
+    expect(await countRows(datasetId)).toBe(100);
   });
 });

@@ -65,7 +65,7 @@ export interface WorkerHandle {
 /** Spawns a real worker process on the test database (`node --import tsx server/worker.ts`). */
 export async function startWorker(env: Record<string, string> = {}): Promise<WorkerHandle> {
   const proc = spawn(process.execPath, ["--import", "tsx", "server/worker.ts"], {
-    env: { ...process.env, LOG_LEVEL: "debug", BUILD_STALE_AFTER_S: "3", BUILD_MONITOR_EVERY_S: "1", ...env },
+    env: { ...process.env, LOG_LEVEL: "debug", BUILD_STALE_AFTER_S: "10", BUILD_MONITOR_EVERY_S: "1", ...env },
     stdio: ["ignore", "pipe", "pipe"],
   });
   let out = "";
