@@ -74,12 +74,18 @@ async function child() {
       .rows[0].id;
     const variables = varSets[i % 3]!.map((v) => ({ variable: v, unit: "", count: 1000, min: v === "latitude" ? lat - 0.5 : v === "longitude" ? lon - 0.5 : 0, max: v === "latitude" ? lat + 0.5 : v === "longitude" ? lon + 0.5 : 1, mean: 0.5, std: 0.1, flags: [0, 990, 0, 5, 5] }));
     const summary = { rows: 1000, platforms: [], start: new Date(start).toISOString(), end: new Date(start + 30 * 86400_000).toISOString(), intervalS: 600, gaps: [], gapCount: 0, coverage: 1, variables };
-    const version = (await pool.query(`insert into versions (dataset_id, number, state, created_by, summary) values ($1, 1, 'released', $2, $3) returning id`, [dataset, userId, summary])).rows[0].id;
-    await pool.query(
+    // As a release does it (database guards): an approved version, its release row, then the state, in one transaction.
+    const tx = await pool.connect();
+    await tx.query("begin");
+    const version = (await tx.query(`insert into versions (dataset_id, number, state, created_by, summary) values ($1, 1, 'approved', $2, $3) returning id`, [dataset, userId, summary])).rows[0].id;
+    await tx.query(
       `insert into releases (version_id, dataset_id, release_number, version_number, released_by, project_name, dataset_title, authors, citation, stable_url, licence)
        values ($1, $2, 1, 1, $3, 'Merrow Shelf Observing Programme (bench)', $4, '{Bench curator}', 'Bench curator (2026). Merrow series.', 'http://127.0.0.1:3998/releases/x', 'CC-BY-4.0')`,
       [version, dataset, userId, `Merrow series ${i}`],
     );
+    await tx.query(`update versions set state = 'released', state_changed_at = now() where id = $1`, [version]);
+    await tx.query("commit");
+    tx.release();
     ids.push(dataset);
   }
   await pool.query("analyze");
@@ -127,7 +133,8 @@ async function child() {
   process.stdout.write(JSON.stringify(figures) + "\n");
 }
 
-if (process.argv.includes("--child")) {
+// Only when this file itself is the child (the catalogue part imports runChild from the download part).
+if (process.argv.includes("--child") && process.argv[1]?.endsWith("catalogue.ts")) {
   child().then(
     () => process.exit(0),
     (e) => {

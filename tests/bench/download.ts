@@ -177,7 +177,8 @@ async function child() {
   process.stdout.write(JSON.stringify(figures) + "\n");
 }
 
-if (process.argv.includes("--child")) {
+// Only when this file itself is the child (the catalogue part imports runChild from the download part).
+if (process.argv.includes("--child") && process.argv[1]?.endsWith("download.ts")) {
   child().then(
     () => process.exit(0),
     (e) => {
