@@ -147,7 +147,9 @@ export function sniffDialect(text: string, complete = true): SniffResult {
     const fields = splitLine(lines[i]!, delimiter);
     if (lines[i]!.trim() === "" || fields.length !== columnCount) continue;
     const dataLike = fields.filter((f) => isDataLike(f, decimalMark)).length;
-    if (dataLike === fields.length) {
+    // A line holding a time is a data line even when some of its values are bad (a logger's "ERR" after power-up,
+    // a formula cell): taking it for the header would hide the lines above it and name columns after values.
+    if (dataLike === fields.length || fields.some((f) => TIME_LIKE.test(f.trim().replace(/^"|"$/g, "")))) {
       firstData = i;
       break;
     }

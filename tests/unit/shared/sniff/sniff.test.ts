@@ -149,3 +149,13 @@ describe("suggestColumnMap and checkColumnMap", () => {
     expect(unit.problems[0]!.message).toContain('Unit "degC" is not allowed for air_pressure');
   });
 });
+
+describe("a first data line with bad values is still data", () => {
+  // Found by the hostile-input suite: an "ERR" or formula cell in the first data lines made that line the header.
+  test("an ERR cell in the first data line leaves the real header in place", () => {
+    const r = sniffDialect("time,wspd,wdir\n2026-10-01T00:00:00Z,ERR,180\n2026-10-01T00:10:00Z,=1+2,181\n2026-10-01T00:20:00Z,3,182\n");
+    expect(r.header).toEqual(["time", "wspd", "wdir"]);
+    expect(r.dialect.headerRow).toBe(1);
+    expect(r.firstDataLine).toBe(2);
+  });
+});
