@@ -19,6 +19,8 @@ const router = createBrowserRouter([
           { path: "forgot-password", lazy: () => import("@/routes/auth/forgot-password") },
           { path: "reset-password", lazy: () => import("@/routes/auth/reset-password") },
           { path: "datasets/:datasetId", lazy: () => import("@/routes/datasets/dataset-detail") },
+          { path: "versions/:versionId/explore", lazy: () => import("@/routes/versions/version-explore") },
+          { path: "versions/:versionId", lazy: () => import("@/routes/versions/version-detail") },
           { path: "releases/:releaseId", lazy: () => import("@/routes/releases/release-detail") },
           { path: "api-docs", lazy: () => import("@/routes/api-docs/api-docs") },
           {

@@ -17,7 +17,12 @@ export const paths = {
   project: (id: string) => `/projects/${id}`,
   platform: (id: string) => `/platforms/${id}`,
   dataset: (id: string) => `/datasets/${id}`,
+  versionExplore: (id: string, q?: { view?: string; from?: string; to?: string }) => {
+    const s = new URLSearchParams(Object.entries(q ?? {}).filter((e): e is [string, string] => !!e[1]));
+    return s.size ? `/versions/${id}/explore?${s}` : `/versions/${id}/explore`;
+  },
   uploadMap: (datasetId: string, uploadId: string) => `/datasets/${datasetId}/uploads/${uploadId}`,
+  version: (id: string) => `/versions/${id}`,
   reviewQueue: () => "/review",
   reviewVersion: (versionId: string) => `/review/${versionId}`,
   release: (releaseId: string) => `/releases/${releaseId}`,

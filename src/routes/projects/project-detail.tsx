@@ -25,6 +25,7 @@ import { CreateDatasetForm } from "@/features/datasets/components/dataset-form";
 import { DatasetTable } from "@/features/datasets/components/dataset-table";
 import { useMembers } from "@/features/members/api/get-members";
 import { AddMemberForm, MembersTable } from "@/features/members/components/members-panel";
+import { ArrayDiagnosticsSection } from "@/features/array-diagnostics/components/array-diagnostics-section";
 
 function PlatformsSection({ projectId, canAdd }: { projectId: string; canAdd: boolean }) {
   const { data, isPending, error } = usePlatforms(projectId);
@@ -194,6 +195,7 @@ export function Component() {
       <div className="space-y-10">
         <PlatformsSection projectId={projectId} canAdd={contribute} />
         <DatasetsSection projectId={projectId} canAdd={contribute} />
+        <ArrayDiagnosticsSection projectId={projectId} />
         <MembersSection projectId={projectId} canManage={isAdmin} />
       </div>
     </>
