@@ -130,7 +130,11 @@ export function inspectStoredUpload(uploadId: string): Promise<void> {
     const decoder = new TextDecoder("utf-8");
     let result: ScanResult;
     try {
-      for await (const chunk of createReadStream(pathForKey(uploadKey(uploadId)), { highWaterMark: 4 << 20 })) scanner.push(decoder.decode(chunk as Buffer, { stream: true }));
+      // Small pieces with a yield between them, so the scan never holds the API's event loop for long.
+      for await (const chunk of createReadStream(pathForKey(uploadKey(uploadId)), { highWaterMark: 256 * 1024 })) {
+        scanner.push(decoder.decode(chunk as Buffer, { stream: true }));
+        await new Promise((r) => setImmediate(r));
+      }
       scanner.push(decoder.decode());
       result = scanner.finish();
     } catch (err) {

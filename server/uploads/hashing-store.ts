@@ -1,8 +1,9 @@
 import { createHash, type Hash } from "node:crypto";
-import { createReadStream } from "node:fs";
+import { createReadStream, createWriteStream } from "node:fs";
 import type http from "node:http";
 import path from "node:path";
-import { Transform, type Readable } from "node:stream";
+import type { Readable } from "node:stream";
+import { pipeline } from "node:stream/promises";
 import { FileStore } from "@tus/file-store";
 
 /**
@@ -23,28 +24,27 @@ export class HashingFileStore extends FileStore {
     return state;
   }
 
+  /**
+   * Same contract as FileStore.write, with fewer stream stages (tus 2 already wraps the body in several): the hash
+   * and the byte count ride on the "data" event, and the file is written with a 1 MiB buffer.
+   */
   override async write(readable: http.IncomingMessage | Readable, id: string, offset: number): Promise<number> {
     let state = this.hashes.get(id);
     if (!state || state.offset !== offset) state = await this.catchUp(id, path.join(this.directory, id), offset);
-    let seen = 0;
     const s = state;
-    const tap = new Transform({
-      transform(chunk: Buffer, _enc, cb) {
-        s.hash.update(chunk);
-        seen += chunk.length;
-        cb(null, chunk);
-      },
+    let seen = 0;
+    readable.on("data", (chunk: Buffer) => {
+      s.hash.update(chunk);
+      seen += chunk.length;
     });
-    readable.on("error", (e) => tap.destroy(e));
     try {
-      const end = await super.write(readable.pipe(tap), id, offset);
-      if (end === offset + seen) s.offset = end;
-      else this.hashes.delete(id);
-      return end;
-    } catch (e) {
+      await pipeline(readable, createWriteStream(path.join(this.directory, id), { flags: "r+", start: offset, highWaterMark: 1 << 20 }));
+    } catch {
       this.hashes.delete(id);
-      throw e;
+      throw { status_code: 500, body: "Something went wrong receiving the file\n" };
     }
+    s.offset = offset + seen;
+    return offset + seen;
   }
 
   /** SHA-256 (hex) of the whole file once `size` bytes are written; reads the file when the state was lost. */

@@ -129,6 +129,15 @@ export function createScanner(dialect: Dialect, header: string[] | null, opts: S
       }
       if (missing.has(t)) continue;
       const c = col(i);
+      // Fast path for the common case (a plain finite number); the regexes below only see the rest.
+      const c0 = t.charCodeAt(0);
+      if ((c0 >= 48 && c0 <= 57) || c0 === 45 || c0 === 46 || c0 === 43) {
+        const x = comma ? (t.indexOf(".") < 0 ? Number(t.replace(",", ".")) : NaN) : t.indexOf(",") < 0 ? Number(t) : NaN;
+        if (Number.isFinite(x)) {
+          c.numbers++;
+          continue;
+        }
+      }
       if ((comma ? NUM_COMMA : NUM_POINT).test(t)) {
         c.numbers++;
         continue;

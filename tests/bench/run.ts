@@ -26,6 +26,7 @@ export const parts: Record<string, () => Promise<BenchPart>> = {
   engine: () => import("./engine"),
   pipeline: () => import("./pipeline"),
   plot: () => import("./plot"),
+  upload: () => import("./upload"),
   download: () => import("./download"),
   catalogue: () => import("./catalogue"),
 };
