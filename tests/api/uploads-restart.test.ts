@@ -1,13 +1,13 @@
 import { spawn, type ChildProcess } from "node:child_process";
 import { createServer } from "node:net";
-import { readFileSync } from "node:fs";
+import { existsSync, readFileSync } from "node:fs";
 import { once } from "node:events";
 import { demoMooringDefaults, mooringCsv } from "../../shared/demo/generate";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { db } from "../../server/db/client";
 import { uploads } from "../../server/db/schema";
-import { pathForKey } from "../../server/lib/file-store";
+import { pathForKey, tusPartKey } from "../../server/lib/file-store";
 import { makeProjectWithRoles } from "../helpers/api";
 import { idFromUrl, makeDataset, sha256, tusUpload } from "../helpers/uploads";
 
@@ -97,6 +97,28 @@ describe("configured limits", () => {
     const r = await tusUpload(`http://127.0.0.1:${port}`, ctx.users.contributor.cookie, Buffer.alloc(2000, 49), { datasetId: ds.datasetId });
     expect(r.status).toBe(413);
     expect(r.body).toContain("larger than the upload limit of 1 kB");
+    api.kill("SIGTERM");
+  });
+});
+
+describe("unfinished uploads expire", () => {
+  test("an abandoned upload's part is deleted after UPLOAD_EXPIRY_HOURS and it can no longer be resumed", async () => {
+    const port = await freePort();
+    const base = `http://127.0.0.1:${port}`;
+    // 0.0005 h = 1.8 s; the sweep runs every second.
+    const api = await startApi(port, { UPLOAD_EXPIRY_HOURS: "0.0005", UPLOAD_CLEANUP_INTERVAL_S: "1" });
+    children.push(api);
+    const data = Buffer.from([...mooringCsv({ ...demoMooringDefaults, intervalS: 1, durationS: 40_000 })].join(""));
+    const first = await tusUpload(base, ctx.users.contributor.cookie, data, { datasetId: ds.datasetId, chunkSize: 1 << 20, stopAfterBytes: 1 << 20 });
+    const id = idFromUrl(first.url);
+    const part = pathForKey(tusPartKey(id));
+    expect(existsSync(part)).toBe(true);
+    const until = Date.now() + 15_000;
+    while (existsSync(part) && Date.now() < until) await new Promise((r) => setTimeout(r, 250));
+    expect(existsSync(part)).toBe(false);
+    expect(existsSync(`${part}.json`)).toBe(false);
+    const head = await fetch(`${base}/api/uploads/${id}`, { method: "HEAD", headers: { cookie: ctx.users.contributor.cookie, "Tus-Resumable": "1.0.0" } });
+    expect([404, 410]).toContain(head.status);
     api.kill("SIGTERM");
   });
 });
