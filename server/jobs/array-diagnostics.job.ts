@@ -10,15 +10,15 @@ import { enqueue } from "./queue";
 /**
  * Array diagnostics for a project's moorings: at each common hourly step where three or more moorings have a wind
  * stress, the engine's least-squares plane fit gives wind-stress curl, Ekman pumping and Sverdrup transport
- * (shared/compute/array.ts, DOMAIN §9). Inputs are each mooring's latest built version (hourly mean stress from its
- * plot buckets; hours holding a failed value are left out) at the deployment's nominal position.
+ * (shared/compute/array.ts, DOMAIN §9). Inputs are each mooring's latest built version (hourly mean of the stress
+ * values flagged pass or not evaluated) at the deployment's nominal position.
  */
 export const ARRAY_DIAGNOSTICS = "array-diagnostics";
 const payloadSchema = z.object({ projectId: idSchema });
 export const ARRAY_STEP_S = 3600;
 
 export function enqueueArrayDiagnostics(projectId: string) {
-  return enqueue(ARRAY_DIAGNOSTICS, { projectId }, { retryLimit: 3, retryDelay: 5, singletonKey: projectId });
+  return enqueue(ARRAY_DIAGNOSTICS, { projectId }, { retryLimit: 3, retryDelay: 5 });
 }
 
 interface Input {
@@ -46,19 +46,21 @@ export async function computeArrayDiagnostics(projectId: string): Promise<{ step
   // hour → per input [taux, tauy]
   const byStep = new Map<number, (readonly [number, number] | undefined)[]>();
   for (const [k, inp] of inputs.entries()) {
+    // Hourly mean stress over values flagged pass or not evaluated, read from the version's records.
     const s = await pool.query(
-      `select variable, t0, mean, worst_flag from plot_series where version_id = $1 and platform = '' and step_s = $2
-        and variable in ('surface_downward_eastward_stress', 'surface_downward_northward_stress')`,
-      [inp.versionId, ARRAY_STEP_S],
+      `select floor(extract(epoch from time) / $3)::float8 * $3 as t,
+              avg(surface_downward_eastward_stress) filter (where surface_downward_eastward_stress_qc in (1, 2) and surface_downward_eastward_stress <> 'NaN') as x,
+              avg(surface_downward_northward_stress) filter (where surface_downward_northward_stress_qc in (1, 2) and surface_downward_northward_stress <> 'NaN') as y
+         from records
+        where dataset_id = $1 and platform = '' and valid_from <= $2 and (valid_to is null or valid_to > $2)
+        group by 1`,
+      [inp.datasetId, inp.versionNumber, ARRAY_STEP_S],
     );
-    const ex = s.rows.find((r) => r.variable === "surface_downward_eastward_stress");
-    const ny = s.rows.find((r) => r.variable === "surface_downward_northward_stress");
-    if (!ex || !ny) continue;
-    for (let j = 0; j < ex.mean.length; j++) {
-      const x = Number(ex.mean[j]);
-      const y = Number(ny.mean[j]);
-      if (!Number.isFinite(x) || !Number.isFinite(y) || ex.worst_flag[j] === 4 || ny.worst_flag[j] === 4) continue;
-      const t = ex.t0 + j * ARRAY_STEP_S;
+    for (const r of s.rows) {
+      const x = r.x === null ? NaN : Number(r.x);
+      const y = r.y === null ? NaN : Number(r.y);
+      if (!Number.isFinite(x) || !Number.isFinite(y)) continue;
+      const t = Number(r.t);
       let row = byStep.get(t);
       if (!row) byStep.set(t, (row = new Array(inputs.length).fill(undefined)));
       row[k] = [x, y];

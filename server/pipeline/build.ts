@@ -458,10 +458,10 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
     clearInterval(ticker);
     ticker = undefined;
     await tick;
-    await client.query(`update versions set state = 'ready', summary = $2, state_changed_at = now() where id = $1`, [versionId, summary]);
+    await client.query(`update versions set state = 'ready', summary = $2, state_changed_at = clock_timestamp() where id = $1`, [versionId, summary]);
     await client.query(
       `update qc_runs set state = 'succeeded', stage = 'done', settings = $2, provenance = $3, counts = $4, warnings = $5, timings = $6,
-              rows_done = $7, bytes_done = bytes_total, rows_per_s = $8, finished_at = now(), heartbeat_at = now() where version_id = $1`,
+              rows_done = $7, bytes_done = bytes_total, rows_per_s = $8, finished_at = clock_timestamp(), heartbeat_at = clock_timestamp() where version_id = $1`,
       [versionId, settings, engine.provenance, report, warnings, timings, rowsWritten, rowsWritten / timings.total_s],
     );
     await client.query(

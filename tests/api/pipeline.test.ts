@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { versionDetailSchema, versionProgressSchema } from "@shared/schemas/versions";
+import { versionDetailSchema, versionProgressSchema, type ArrayDiagnostics } from "@shared/schemas/versions";
 import { pool } from "../../server/db/client";
 import { stopSender } from "../../server/jobs/queue";
 import { as, makeProjectWithRoles } from "../helpers/api";
@@ -182,6 +182,57 @@ describe("POST /api/datasets/:id/versions", () => {
     expect((await waitForVersion(id, ["ready", "failed"], 120_000)).state).toBe("ready");
     expect(await countRows(datasetId)).toBe(86400);
   }, 240_000);
+});
+
+describe("GET /api/projects/:id/array-diagnostics", () => {
+  test("three overlapping moorings give hourly curl, Ekman pumping and Sverdrup transport", async () => {
+    const { projectId } = await (async () => ({ projectId: (await makeProjectWithRoles()).projectId }))();
+    const { contributor } = roles.users;
+    await pool.query(`insert into memberships (project_id, user_id, role) values ($1, $2, 'contributor')`, [projectId, contributor.id]);
+    // A triangle of moorings ~20 km apart feeling the same wind: a uniform stress field.
+    const sites = [
+      { latitude: 41.2, longitude: -27.6 },
+      { latitude: 41.35, longitude: -27.45 },
+      { latitude: 41.15, longitude: -27.3 },
+    ];
+    const text = windText(day, 600, 60);
+    for (const site of sites) {
+      const { datasetId } = await makeMooringDataset(projectId, site);
+      const uploadId = await storeUpload(datasetId, contributor.id, text);
+      const r = await as(contributor.cookie).post(`/api/datasets/${datasetId}/versions`).send({ uploadId, columnMap: mooringMap(), mode: "replace" });
+      await waitForVersion(r.body.id, ["ready"]);
+    }
+    let body: ArrayDiagnostics | undefined;
+    const until = Date.now() + 60_000;
+    while (Date.now() < until) {
+      const res = await as(contributor.cookie).get(`/api/projects/${projectId}/array-diagnostics`);
+      expect(res.status).toBe(200);
+      body = res.body;
+      if (body!.inputs.length === 3 && body!.time.length === 10) break;
+      await new Promise((r) => setTimeout(r, 250));
+    }
+    expect(body!.inputs.length).toBe(3);
+    expect(body!.time.length).toBe(10); // 600 minutes = 10 whole hours
+    expect(body!.caution).toMatch(/not for navigation/);
+    // Uniform stress: the plane fit has no gradient, so curl and Sverdrup transport vanish and the pumping is the β term
+    // alone, w = β τx / (ρ f²) with f = 2Ω sin φ and β = 2Ω cos φ / a (Gill 1982, Atmosphere–Ocean Dynamics §9.4 and
+    // §12.2 — formulas from memory; DOMAIN §9; ρ = 1025 kg m-3 common practice).
+    const taux = await pool.query(
+      `select floor(extract(epoch from r.time) / 3600) as h, avg(surface_downward_eastward_stress) filter (where surface_downward_eastward_stress_qc in (1, 2)) as x from records r
+         join datasets d on d.id = r.dataset_id where d.project_id = $1 group by 1 order by 1 limit 1`,
+      [projectId],
+    );
+    const phi = (sites.reduce((s, x) => s + x.latitude, 0) / 3) * (Math.PI / 180);
+    const omega = 7.2921e-5;
+    const f = 2 * omega * Math.sin(phi);
+    const beta = (2 * omega * Math.cos(phi)) / 6.371e6;
+    expect(Math.abs(body!.curl[0]!)).toBeLessThan(1e-15);
+    expect(Math.abs(body!.sverdrup[0]!)).toBeLessThan(1e-6);
+    const expected = (beta * Number(taux.rows[0].x)) / (1025 * f * f);
+    expect(Math.abs(expected)).toBeGreaterThan(1e-12);
+    expect(Math.abs(body!.ekmanPumping[0]! / expected - 1)).toBeLessThan(1e-3);
+    expect(body!.used[0]).toBe(3);
+  });
 });
 
 describe("records of released versions (database trigger, raw SQL)", () => {

@@ -25,7 +25,7 @@ export function BuildProgress({ version }: { version: VersionDetail }) {
     <div className="space-y-3" aria-live="polite">
       <div className="flex flex-wrap items-center gap-x-6 gap-y-1 text-sm">
         <span>
-          Stage: <strong>{p.runState === "cancelled" ? "cancelled" : stageWords[p.stage] ?? p.stage}</strong>
+          Stage: <strong>{p.runState === "cancelled" ? "cancelled" : p.runState === "failed" ? `stopped while ${stageWords[p.stage] ?? p.stage}` : (stageWords[p.stage] ?? p.stage)}</strong>
           {p.cancelRequested && running ? " (cancel requested)" : null}
         </span>
         <span>
