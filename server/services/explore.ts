@@ -345,7 +345,10 @@ export async function getQcReport(user: SessionUser | null | undefined, id: stri
     versionId: v.id,
     tests: testNames.map((t) => testLabels[t]),
     variables,
-    testCounts: counts.testCounts ?? {},
+    // The engine keys tests by constant name (FLAT_LINE); reports use the snake_case labels (flat_line).
+    testCounts: Object.fromEntries(
+      Object.entries(counts.testCounts ?? {}).map(([v, tests]) => [v, Object.fromEntries(Object.entries(tests).map(([t, c]) => [testLabels[t as keyof typeof testLabels] ?? t.toLowerCase(), c]))]),
+    ),
     timeline,
     stretches: stretches.slice(0, 20),
     manualFlags: manual.rows[0].n,

@@ -19,6 +19,7 @@ import { VersionsTable } from "@/features/datasets/components/versions-table";
 import { DatasetReleases } from "@/features/releases/components/dataset-releases";
 import { FollowButton } from "@/features/releases/components/follow-button";
 import { DatasetUploads } from "@/features/uploads/components/dataset-uploads";
+import { VersionMap } from "@/features/plots/components/version-map";
 import { LandingMain } from "@/features/catalogue/components/landing-main";
 
 export function Component() {
@@ -86,6 +87,20 @@ export function Component() {
               <VersionsTable items={d.versions} linkTo={member ? (v) => paths.reviewVersion(v.id) : undefined} />
             )}
           </Section>
+
+          {(() => {
+            // The map shows the newest version with records the caller may read (released ones for visitors).
+            const mapVersion = [...d.versions].sort((a, b) => b.number - a.number).find((v) => ["ready", "in_review", "changes_requested", "rejected", "approved", "released", "superseded"].includes(v.state));
+            return mapVersion ? (
+              <Section
+                title="Where"
+                description={`Positions of version ${mapVersion.number} on an offline base map.`}
+                action={<Link to={paths.versionExplore(mapVersion.id)}>Explore version {mapVersion.number}: plots, records, QC report</Link>}
+              >
+                <VersionMap versionId={mapVersion.id} height={320} />
+              </Section>
+            ) : null;
+          })()}
 
           {member ? (
             <Section title="Uploads" description="Logger files for this dataset, checked by the server when they arrive. Stored once, never changed.">
