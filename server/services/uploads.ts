@@ -14,6 +14,7 @@ import type { SessionUser } from "../middleware/require-session";
 import { assertProjectAccess } from "./access";
 import { writeAudit } from "./audit";
 import type { HashingFileStore } from "../uploads/hashing-store";
+import { storageFailure } from "../uploads/storage-failure";
 
 /** Bytes read at finish to decide encoding and dialect; a first line longer than this is refused. */
 const HEAD_BYTES = (1 << 20) + 4;
@@ -108,6 +109,8 @@ export async function recordFinishedUpload(store: HashingFileStore, user: Sessio
     await unlink(finalPath).catch(() => undefined);
     await store.remove(id).catch(() => undefined);
     await store.configstore.delete(id).catch(() => undefined);
+    const storage = storageFailure(e);
+    if (storage) throw new AppError("unavailable", storage.message, storage.status, undefined, { cause: e });
     throw new AppError("internal", "The file arrived but could not be recorded. Upload it again.", 500, undefined, { cause: e });
   }
   await store.configstore.delete(id).catch(() => undefined);

@@ -5,6 +5,7 @@ import path from "node:path";
 import type { Readable } from "node:stream";
 import { pipeline } from "node:stream/promises";
 import { FileStore } from "@tus/file-store";
+import { storageFailure } from "./storage-failure";
 
 /**
  * A tus FileStore that hashes bytes on their way to disk, so the SHA-256 is ready when the last byte lands. The
@@ -39,8 +40,10 @@ export class HashingFileStore extends FileStore {
     });
     try {
       await pipeline(readable, createWriteStream(path.join(this.directory, id), { flags: "r+", start: offset, highWaterMark: 1 << 20 }));
-    } catch {
+    } catch (e) {
       this.hashes.delete(id);
+      const storage = storageFailure(e);
+      if (storage) throw { status_code: storage.status, body: `${storage.message}\n` };
       throw { status_code: 500, body: "Something went wrong receiving the file\n" };
     }
     s.offset = offset + seen;
