@@ -12,6 +12,7 @@ import { logger } from "./lib/logger";
 import { errorHandler, notFoundHandler } from "./middleware/error-handler";
 import { checkOrigin } from "./middleware/check-origin";
 import { authRateLimit, SENSITIVE_AUTH_PATHS } from "./middleware/rate-limit";
+import { databaseReachable } from "./middleware/database-reachable";
 import { requestId } from "./middleware/request-id";
 import { adminApi, meApi } from "./routes/admin";
 import { catalogueApi, datasetsApi, reviewApi } from "./routes/datasets";
@@ -88,7 +89,7 @@ export function createApp(options: AppOptions = {}): Express {
   app.use("/api", checkOrigin([env.PUBLIC_URL]));
   // better-auth and (later) tus read the raw request stream, so they come before the JSON body parser.
   app.use(SENSITIVE_AUTH_PATHS, authRateLimit(options.authRateLimit ?? env.AUTH_RATE_LIMIT, env.AUTH_RATE_WINDOW_S));
-  app.all("/api/auth/{*any}", toNodeHandler(auth));
+  app.all("/api/auth/{*any}", databaseReachable, toNodeHandler(auth));
   // Resumable uploads (tus) read the raw body too; GET falls through to the JSON detail route.
   app.all(["/api/uploads", "/api/uploads/{*any}"], createTusMount().handler);
 
