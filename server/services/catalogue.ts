@@ -142,10 +142,40 @@ export function searchItems(all: CatalogueItem[], q: CatalogueSearch): Catalogue
   return { items: items.slice(start, start + q.pageSize), total: items.length, page: q.page, pageSize: q.pageSize };
 }
 
+/**
+ * What the public catalogue depends on changes only when something is released or retracted, so answers are
+ * kept while this stamp (one cheap query on the small releases table) stays the same. Edits to a dataset's
+ * title or description show after at most CACHE_MS.
+ */
+const CACHE_MS = 5_000;
+/** The stamp is read at most this often; releases made in this process reset it at once (invalidateCatalogue). */
+const STAMP_MS = 1_000;
+let stampCache: { at: number; value: Promise<string> } | null = null;
+async function releaseStamp(): Promise<string> {
+  if (stampCache && Date.now() - stampCache.at < STAMP_MS) return stampCache.value;
+  const value = pool.query(`select count(*)::int as n, max(released_at) as r, max(retracted_at) as x from releases`).then((r) => JSON.stringify(r.rows[0]));
+  stampCache = { at: Date.now(), value };
+  value.catch(() => (stampCache = null));
+  return value;
+}
+
+/** Forgets kept catalogue answers (called after a release or retraction in this process). */
+export function invalidateCatalogue() {
+  stampCache = null;
+  listCache = null;
+  landingCache.clear();
+}
+let listCache: { stamp: string; at: number; items: Promise<CatalogueItem[]> } | null = null;
+const landingCache = new Map<string, { stamp: string; at: number; value: Promise<DatasetLanding> }>();
+
 /** Every dataset with a live release (the catalogue's whole set, before filters). */
 export async function releasedDatasets(): Promise<CatalogueItem[]> {
-  const { rows } = await pool.query<Row>(CATALOGUE_SQL);
-  return rows.map(toItem);
+  const stamp = await releaseStamp();
+  if (listCache && listCache.stamp === stamp && Date.now() - listCache.at < CACHE_MS) return listCache.items;
+  const items = pool.query<Row>(CATALOGUE_SQL).then((r) => r.rows.map(toItem));
+  listCache = { stamp, at: Date.now(), items };
+  items.catch(() => (listCache = null));
+  return items;
 }
 
 // GET /api/v1/catalogue
@@ -200,6 +230,19 @@ interface SummaryVar {
  * not a member); members also see their drafts, and the page then describes the newest built version.
  */
 export async function getLanding(user: SessionUser | null | undefined, datasetId: string): Promise<DatasetLanding> {
+  // Visitors all see the same page of a released dataset, so theirs is kept like the catalogue list.
+  if (user) return buildLanding(user, datasetId);
+  const stamp = await releaseStamp();
+  const hit = landingCache.get(datasetId);
+  if (hit && hit.stamp === stamp && Date.now() - hit.at < CACHE_MS) return hit.value;
+  const value = buildLanding(null, datasetId);
+  if (landingCache.size > 5000) landingCache.clear();
+  landingCache.set(datasetId, { stamp, at: Date.now(), value });
+  value.catch(() => landingCache.delete(datasetId));
+  return value;
+}
+
+async function buildLanding(user: SessionUser | null | undefined, datasetId: string): Promise<DatasetLanding> {
   const dataset = await getDataset(user, datasetId);
   const releases = await listDatasetReleases(user, datasetId);
   const built = dataset.versions.find((v) => (builtVersionStates as readonly string[]).includes(v.state));

@@ -11,6 +11,7 @@ import { getDataset } from "./datasets";
 import { writeAudit } from "./audit";
 import { assertTransition, loadVersionContext, versionForMember, type Tx, type VersionContext } from "./curation";
 import { enqueueReleaseFiles } from "../jobs/release-files.job";
+import { invalidateCatalogue } from "./catalogue";
 import { logger } from "../lib/logger";
 import { appUrl, deliver, followerIds, notify, projectMemberIds } from "./notifications";
 
@@ -136,6 +137,7 @@ export async function releaseVersion(user: SessionUser, versionId: string, input
   void deliver(mails);
   // The whole-release files (CSV, data package, Parquet) and their checksums are built by a job.
   enqueueReleaseFiles(releaseId).catch((err) => logger.error({ err, releaseId }, "could not queue the release files"));
+  invalidateCatalogue();
   return getRelease(user, releaseId);
 }
 
@@ -176,6 +178,7 @@ export async function retractVersion(user: SessionUser, versionId: string, input
     return { releaseId: rel.id, mails };
   });
   void deliver(mails);
+  invalidateCatalogue();
   return getRelease(user, releaseId);
 }
 

@@ -107,7 +107,7 @@ export function CatalogueSearch({ filter, fieldErrors, onChange }: { filter: Cat
                 />
               ))}
             </div>
-            {err("bbox") ? <p className="text-sm text-signal">{err("bbox")}</p> : <p className="text-sm text-muted">East of the antimeridian below west crosses it.</p>}
+            {err("bbox") ? <p className="text-sm text-signal">{err("bbox")}</p> : <p className="text-sm text-muted">A west edge greater than the east edge spans the 180° meridian.</p>}
           </fieldset>
           <fieldset className="space-y-2">
             <legend className="text-sm font-semibold">Data between (UTC)</legend>
