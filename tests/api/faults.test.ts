@@ -7,15 +7,15 @@ import { join } from "node:path";
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { pool } from "../../server/db/client";
-import { stopSender } from "../../server/jobs/queue";
-import { as, makeProjectWithRoles, ORIGIN } from "../helpers/api";
-import { countRows, makeMooringDataset, mooringMap, mooringText, startWorker, storeUpload, versionRows, waitForVersion } from "../helpers/pipeline";
+import { makeProjectWithRoles, ORIGIN } from "../helpers/api";
+import { mooringText } from "../helpers/pipeline";
 import { makeDataset } from "../helpers/uploads";
 
 /**
- * Faults while Tauline runs, with real processes: a worker killed with SIGKILL in the middle of a build, storage that
- * fails while a file arrives, and PostgreSQL restarted under a running API. (An API process killed mid-upload is
- * tests/api/uploads-restart.test.ts.) PostgreSQL is restarted on a cluster of this file's own, never a shared one.
+ * Faults while Tauline runs, with real processes: storage that fails while a file arrives, and PostgreSQL restarted
+ * under a running API. (An API process killed mid-upload is tests/api/uploads-restart.test.ts; a worker killed
+ * mid-build is tests/api/pipeline-crash.test.ts.) PostgreSQL is restarted on a cluster of this file's own, never a
+ * shared one.
  */
 
 const children: ChildProcess[] = [];
@@ -25,7 +25,6 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   for (const c of children) if (c.exitCode === null) c.kill("SIGKILL");
-  await stopSender();
 });
 
 function freePort(): Promise<number> {
@@ -61,59 +60,6 @@ async function startApi(env: Record<string, string>): Promise<{ proc: ChildProce
   }
   throw new Error(`the API did not start: ${out}`);
 }
-
-describe("a worker killed in the middle of a build", () => {
-  test("SIGKILL mid-build: another worker retries it and the result equals an uninterrupted build", { timeout: 240_000 }, async () => {
-    const { contributor } = roles.users;
-    // A month of 1-minute data: long enough to be caught in the middle.
-    const text = mooringText({ start: Date.UTC(2026, 9, 1) / 1000, durationS: 31 * 86400, intervalS: 60 });
-    const reference = await makeMooringDataset(roles.projectId, { name: "Reference buoy" });
-    const victim = await makeMooringDataset(roles.projectId, { name: "Interrupted buoy" });
-
-    let worker = await startWorker({ BUILD_STALE_AFTER_S: "3", BUILD_MONITOR_EVERY_S: "1" });
-    try {
-      const refUpload = await storeUpload(reference.datasetId, contributor.id, text);
-      const ref = await as(contributor.cookie).post(`/api/datasets/${reference.datasetId}/versions`).send({ uploadId: refUpload, columnMap: mooringMap(), mode: "replace" });
-      expect(ref.status).toBe(201);
-      expect((await waitForVersion(ref.body.id, ["ready", "failed"], 180_000)).state).toBe("ready");
-
-      const upload = await storeUpload(victim.datasetId, contributor.id, text);
-      const res = await as(contributor.cookie).post(`/api/datasets/${victim.datasetId}/versions`).send({ uploadId: upload, columnMap: mooringMap(), mode: "replace" });
-      expect(res.status).toBe(201);
-      // Wait until the build is writing, then kill the worker without any chance to clean up.
-      const until = Date.now() + 60_000;
-      let stage = "";
-      for (;;) {
-        const { rows } = await pool.query(`select state, stage, rows_done from qc_runs where version_id = $1`, [res.body.id]);
-        stage = `${rows[0]?.state}/${rows[0]?.stage}`;
-        if (rows[0]?.state === "running" && rows[0]?.stage !== "reading") break;
-        if (rows[0]?.state === "running" && Number(rows[0]?.rows_done ?? 0) > 0) break;
-        if (Date.now() > until) throw new Error(`the build never started: ${stage}`);
-        await new Promise((r) => setTimeout(r, 20));
-      }
-      await worker.kill();
-      const [mid] = (await pool.query(`select state from versions where id = $1`, [res.body.id])).rows;
-      expect(mid.state, "killed before the build finished").toBe("processing");
-
-      worker = await startWorker({ BUILD_STALE_AFTER_S: "3", BUILD_MONITOR_EVERY_S: "1" });
-      const v = await waitForVersion(res.body.id, ["ready", "failed"], 180_000);
-      expect(v.state).toBe("ready");
-      const { rows: runs } = await pool.query(`select attempt, state from qc_runs where version_id = $1`, [res.body.id]);
-      expect(runs[0].state).toBe("succeeded");
-      expect(runs[0].attempt, "the build ran a second time").toBeGreaterThanOrEqual(2);
-
-      // Identical result: same number of rows (no duplicates from the first attempt), same values and flags.
-      expect(await countRows(victim.datasetId)).toBe(31 * 1440);
-      const cols = ["wind_speed", "wind_speed_qc", "air_temperature", "air_temperature_qc", "eastward_sea_water_velocity", "eastward_sea_water_velocity_qc", "surface_downward_eastward_stress", "surface_downward_eastward_stress_qc"];
-      const a = await versionRows(reference.datasetId, 1, cols);
-      const b = await versionRows(victim.datasetId, 1, cols);
-      expect(b.length).toBe(a.length);
-      expect(b).toEqual(a);
-    } finally {
-      await worker.stop();
-    }
-  });
-});
 
 describe("storage fails while a file arrives", () => {
   /** Creates an upload, makes its part a link to /dev/full (every write fails with ENOSPC), then sends the bytes. */
