@@ -57,10 +57,11 @@ export interface BaseMapProps {
   className?: string;
   /** Smallest padding around what is drawn, degrees (keeps the coast in view around a single point). */
   minPadDeg?: number;
+  /** Drawing width in SVG units (the map scales to its box; a small inset wants a small width so its text stays legible). */
+  viewWidth?: number;
 }
 
 const EARTH_RADIUS_M = 6371008.8;
-const W = 800;
 
 type Land = FeatureCollection;
 let landCache: Promise<Land> | undefined;
@@ -97,7 +98,8 @@ function boundsOf(points: MapPoint[], tracks: MapTrack[], circles: MapCircle[]):
   return Number.isFinite(w) ? [w, s, e, n] : null;
 }
 
-export function BaseMap({ points = [], tracks = [], circles = [], colourBy = "value", valueLabel = "Speed", valueUnit = "m s-1", extent, drawRectangle, onBbox, label, height = 420, className, minPadDeg = 0.5 }: BaseMapProps) {
+export function BaseMap({ points = [], tracks = [], circles = [], colourBy = "value", valueLabel = "Speed", valueUnit = "m s-1", extent, drawRectangle, onBbox, label, height = 420, className, minPadDeg = 0.5, viewWidth = 800 }: BaseMapProps) {
+  const W = viewWidth;
   const [land, setLand] = useState<Land | null>(null);
   const [drag, setDrag] = useState<{ x0: number; y0: number; x1: number; y1: number } | null>(null);
   const svgRef = useRef<SVGSVGElement>(null);
@@ -131,7 +133,7 @@ export function BaseMap({ points = [], tracks = [], circles = [], colourBy = "va
       ],
       frame,
     );
-  }, [box, height]);
+  }, [box, height, W]);
   const path = useMemo(() => geoPath(projection), [projection]);
 
   const valueRange = useMemo(() => {

@@ -153,7 +153,7 @@ export function PlotExplorer({
           {formatUtc(iso(from))} – {formatUtc(iso(to))}
         </span>
         <span>
-          {w.source === "records" ? "every record" : "pre-aggregated"} buckets of <span className="num">{formatSpan(w.stepS)}</span>: line = mean, band = min to max
+          {w.source === "records" ? "from every record" : "pre-aggregated"}, buckets of <span className="num">{formatSpan(w.stepS)}</span>: line = mean, band = min to max
           {q.isFetching ? " · loading finer data…" : ""}
         </span>
         <span className="inline-flex items-center gap-1">

@@ -211,7 +211,13 @@ export function PlotPanel({
 
   const at = cursorIdx !== null ? (data[0][cursorIdx] ?? null) : null;
   return (
-    <div className="rounded-lg border border-line bg-surface p-3" data-testid={`plot-panel-${panel.id}`}>
+    <div
+      className="rounded-lg border border-line bg-surface p-3"
+      data-testid={`plot-panel-${panel.id}`}
+      data-suspect-buckets={flags[0]?.filter((f) => f === 3).length ?? 0}
+      data-fail-buckets={flags[0]?.filter((f) => f === 4).length ?? 0}
+      data-buckets={flags[0]?.filter((f) => f !== null).length ?? 0}
+    >
       <div className="mb-1 flex flex-wrap items-baseline justify-between gap-2">
         <h3 className="font-semibold">
           {panel.title} <span className="text-sm font-normal text-muted">({panel.unit})</span>

@@ -42,8 +42,8 @@ export function StickPlot({ title, unit, noun, u, v, from, to }: { title: string
         {sticks.map(([t, a, b]) => (
           <line key={t} x1={x(t)} y1={MID} x2={x(t) + a * scale} y2={MID - b * scale} stroke="var(--t-accent)" strokeWidth={1.3} strokeLinecap="round" />
         ))}
-        {ticks.map((t) => (
-          <text key={t} x={x(t)} y={H + 18} fontSize={12} textAnchor="middle" fill="var(--t-muted)">
+        {ticks.map((t, i) => (
+          <text key={t} x={x(t)} y={H + 18} fontSize={12} textAnchor={i === 0 ? "start" : i === ticks.length - 1 ? "end" : "middle"} fill="var(--t-muted)">
             {new Date(t * 1000).toISOString().slice(5, 16).replace("T", " ")}
           </text>
         ))}

@@ -53,9 +53,9 @@ export function VersionMap({ versionId, height = 420 }: { versionId: string; hei
         height={height}
       />
       {circles.length ? (
-        <div className="grid gap-3 sm:grid-cols-[1fr_16rem] sm:items-end">
+        <div className="grid gap-3 sm:grid-cols-[1fr_20rem] sm:items-start">
           <p className="text-sm text-muted">Dashed: the mooring's watch circle ({d!.watchCircleM} m) around its nominal position, too small to see at this scale; the close-up shows it.</p>
-          <BaseMap label={`Close-up of the ${d!.watchCircleM} m watch circle`} points={points.map((p) => ({ ...p, label: "" }))} circles={circles} minPadDeg={0} height={200} />
+          <BaseMap label={`Close-up of the ${d!.watchCircleM} m watch circle`} points={points.map((p) => ({ ...p, label: "" }))} circles={circles} minPadDeg={0} height={240} viewWidth={320} />
         </div>
       ) : null}
     </div>
