@@ -112,6 +112,19 @@ function intersects(b: Bounds, q: NonNullable<CatalogueSearch["bbox"]>): boolean
   return q.west <= q.east && b.west <= q.west && b.east >= q.east;
 }
 
+/** One collator for every sort: building one per comparison (localeCompare with a locale) is slow. */
+const collator = new Intl.Collator("en");
+/** Lower-case search text of an item, built once per item. */
+const haystacks = new WeakMap<CatalogueItem, string>();
+function haystackOf(it: CatalogueItem): string {
+  let h = haystacks.get(it);
+  if (h === undefined) {
+    h = [it.title, it.projectName, it.platformName ?? "", ...it.variables.map(variableWords)].join(" ").toLowerCase();
+    haystacks.set(it, h);
+  }
+  return h;
+}
+
 /** Filters, sorts and pages the released datasets. */
 export function searchItems(all: CatalogueItem[], q: CatalogueSearch): CataloguePage {
   const words = (q.q ?? "").toLowerCase().split(/\s+/).filter(Boolean);
@@ -125,7 +138,7 @@ export function searchItems(all: CatalogueItem[], q: CatalogueSearch): Catalogue
     if (toMs !== null && it.startTime && Date.parse(it.startTime) > toMs) return false;
     if ((fromMs !== null || toMs !== null) && !it.startTime && !it.endTime) return false;
     if (words.length) {
-      const hay = [it.title, it.projectName, it.platformName ?? "", ...it.variables.map(variableWords)].join(" ").toLowerCase();
+      const hay = haystackOf(it);
       if (!words.every((w) => hay.includes(w))) return false;
     }
     return true;
@@ -133,11 +146,11 @@ export function searchItems(all: CatalogueItem[], q: CatalogueSearch): Catalogue
   const time = (s: string | null, missing: number) => (s ? Date.parse(s) : missing);
   const by: Record<CatalogueSearch["sort"], (a: CatalogueItem, b: CatalogueItem) => number> = {
     released: (a, b) => b.releasedAt.localeCompare(a.releasedAt),
-    title: (a, b) => a.title.localeCompare(b.title, "en"),
+    title: (a, b) => collator.compare(a.title, b.title),
     start: (a, b) => time(a.startTime, Infinity) - time(b.startTime, Infinity),
     end: (a, b) => time(b.endTime, -Infinity) - time(a.endTime, -Infinity),
   };
-  items.sort((a, b) => by[q.sort](a, b) || a.title.localeCompare(b.title, "en") || a.id.localeCompare(b.id));
+  items.sort((a, b) => by[q.sort](a, b) || collator.compare(a.title, b.title) || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
   const start = (q.page - 1) * q.pageSize;
   return { items: items.slice(start, start + q.pageSize), total: items.length, page: q.page, pageSize: q.pageSize };
 }
