@@ -126,13 +126,19 @@ export function BaseMap({ points = [], tracks = [], circles = [], colourBy = "va
       properties: {},
       geometry: { type: "MultiPoint", coordinates: [[box[0], box[1]], [box[2], box[3]], [box[0], box[3]], [box[2], box[1]]] },
     };
-    return geoMercator().fitExtent(
-      [
-        [8, 8],
-        [W - 8, height - 8],
-      ],
-      frame,
-    );
+    // Clipped to the frame, so land far outside the view is not drawn at all.
+    return geoMercator()
+      .fitExtent(
+        [
+          [8, 8],
+          [W - 8, height - 8],
+        ],
+        frame,
+      )
+      .clipExtent([
+        [0, 0],
+        [W, height],
+      ]);
   }, [box, height, W]);
   const path = useMemo(() => geoPath(projection), [projection]);
 
