@@ -5,6 +5,7 @@ import { derivedVariables, measuredVariables } from "@shared/vocabulary";
 import { pool } from "../db/client";
 import { logger } from "../lib/logger";
 import { summariseVersion } from "../pipeline/build";
+import { writePlotSeries } from "../pipeline/plot-series";
 import type { JobDefinition } from "./index";
 import { enqueue } from "./queue";
 
@@ -35,12 +36,7 @@ export async function rebuildSummaries(versionId: string): Promise<boolean> {
     const columns = Object.keys(v.counts?.flagCounts ?? {}).filter((k) => known.has(k));
     const s = await summariseVersion(c, v.dataset_id, v.number, columns, settings);
     await c.query(`update versions set summary = $2 where id = $1`, [versionId, s.summary()]);
-    await c.query(`delete from plot_series where version_id = $1`, [versionId]);
-    for (const p of s.plotSeries()) {
-      await c.query(`insert into plot_series (version_id, platform, variable, step_s, t0, min, max, mean, n, worst_flag) values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10)`, [
-        versionId, p.platform, p.variable, p.stepS, p.t0, p.min, p.max, p.mean, p.n, p.worstFlag,
-      ]);
-    }
+    await writePlotSeries(c, versionId, s.plotSeries());
     await c.query("commit");
     return true;
   } catch (e) {

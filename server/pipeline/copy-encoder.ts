@@ -120,3 +120,73 @@ export function createRecordEncoder(datasetId: string, validFrom: number, variab
     },
   };
 }
+
+/** Element types of PostgreSQL binary arrays (pg_type OIDs). */
+const OID = { int2: 21, int4: 23, float4: 700 } as const;
+
+/** Bucket arrays of one plot series, as written to plot_series. */
+export interface PlotSeriesArrays {
+  platform: string;
+  variable: string;
+  stepS: number;
+  t0: number;
+  min: ArrayLike<number>;
+  max: ArrayLike<number>;
+  mean: ArrayLike<number>;
+  n: ArrayLike<number>;
+  worstFlag: ArrayLike<number>;
+}
+
+/**
+ * One plot_series row in binary COPY form (columns version_id, platform, variable, step_s, t0, min, max, mean, n,
+ * worst_flag). Binary arrays (PostgreSQL manual, array_recv: ndim, has-null flag, element OID, size and lower bound,
+ * then length-prefixed elements) spare the server parsing millions of numbers as text.
+ */
+export function encodePlotSeriesRow(versionId: string, r: PlotSeriesArrays): Buffer {
+  const plat = Buffer.from(r.platform, "utf8");
+  const variable = Buffer.from(r.variable, "utf8");
+  const len = r.min.length;
+  const arr = (elem: number) => 4 + 20 + len * (4 + elem);
+  const size = 2 + 20 + 4 + plat.length + 4 + variable.length + 8 + 12 + 3 * arr(4) + arr(4) + arr(2);
+  const buf = Buffer.allocUnsafe(size);
+  const dv = new DataView(buf.buffer, buf.byteOffset, buf.length);
+  let o = 0;
+  dv.setInt16(o, 10);
+  o += 2;
+  dv.setInt32(o, 16);
+  uuidBytes(versionId).copy(buf, o + 4);
+  o += 20;
+  for (const b of [plat, variable]) {
+    dv.setInt32(o, b.length);
+    b.copy(buf, o + 4);
+    o += 4 + b.length;
+  }
+  dv.setInt32(o, 4);
+  dv.setInt32(o + 4, r.stepS);
+  o += 8;
+  dv.setInt32(o, 8);
+  dv.setFloat64(o + 4, r.t0);
+  o += 12;
+  const array = (a: ArrayLike<number>, oid: number, elem: 2 | 4) => {
+    dv.setInt32(o, 20 + len * (4 + elem));
+    dv.setInt32(o + 4, 1);
+    dv.setInt32(o + 8, 0);
+    dv.setInt32(o + 12, oid);
+    dv.setInt32(o + 16, len);
+    dv.setInt32(o + 20, 1);
+    o += 24;
+    for (let i = 0; i < len; i++) {
+      dv.setInt32(o, elem);
+      if (oid === OID.float4) dv.setFloat32(o + 4, a[i]!);
+      else if (elem === 4) dv.setInt32(o + 4, a[i]!);
+      else dv.setInt16(o + 4, a[i]!);
+      o += 4 + elem;
+    }
+  };
+  array(r.min, OID.float4, 4);
+  array(r.max, OID.float4, 4);
+  array(r.mean, OID.float4, 4);
+  array(r.n, OID.int4, 4);
+  array(r.worstFlag, OID.int2, 2);
+  return buf.subarray(0, o);
+}

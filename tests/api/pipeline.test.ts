@@ -64,6 +64,12 @@ describe("POST /api/datasets/:id/versions", () => {
     const len = (step: number) => series.rows.find((r) => r.step_s === step)?.len;
     expect(len(60)).toBe(1440);
     expect(len(3600)).toBe(24);
+    // The first hour's bucket agrees with the records it summarises (stored as float4).
+    const hour = await pool.query(`select min[1] as lo, max[1] as hi, n[1] as n from plot_series where version_id = $1 and variable = 'wind_speed' and step_s = 3600`, [v.id]);
+    const raw = await pool.query(`select min(wind_speed) as lo, max(wind_speed) as hi, count(*)::int as n from records where dataset_id = $1 and time < to_timestamp($2)`, [datasetId, day + 3600]);
+    expect(hour.rows[0].n).toBe(60);
+    expect(hour.rows[0].lo).toBeCloseTo(raw.rows[0].lo, 5);
+    expect(hour.rows[0].hi).toBeCloseTo(raw.rows[0].hi, 5);
   });
 
   test("refuses an upload of another dataset (forged id) and an append with nothing to append to", async () => {
