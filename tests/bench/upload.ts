@@ -52,6 +52,7 @@ export async function run(ctx: BenchContext) {
       DATABASE_URL: `postgres://postgres@127.0.0.1:${port}/${dbName}`,
       STORAGE_DIR: process.env.BENCH_UPLOAD_STORAGE ?? join(ctx.dir, "storage-upload"),
       LOG_LEVEL: "warn",
+      REQUIRE_EMAIL_VERIFICATION: "false",
       PUBLIC_URL: "http://127.0.0.1:3999",
       BETTER_AUTH_URL: "http://127.0.0.1:3999",
     });

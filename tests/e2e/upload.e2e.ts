@@ -70,3 +70,43 @@ test("a contributor uploads a logger file through the dashboard, maps its column
   await expect(editor.getByText(/Saved maps of this platform/)).toBeVisible();
   await shot(page, "upload-map-saved");
 });
+
+test("an upload interrupted by a page reload resumes from the server's offset when the same file is picked again", async ({ page }) => {
+  test.setTimeout(120_000);
+  const dir = "tests/artifacts/e2e-files";
+  mkdirSync(dir, { recursive: true });
+  const file = `${dir}/merrow-south-logger.csv`;
+  writeFileSync(file, [...mooringCsv({ ...demoMooringDefaults, seed: 7, intervalS: 1, durationS: 60_000 })].join(""));
+  const sha = createHash("sha256").update(readFileSync(file)).digest("hex");
+
+  await signIn(page, demo.contributor);
+  await page.getByRole("link", { name: "My projects" }).click();
+  await page.getByRole("link", { name: "Merrow Shelf Observing Programme" }).first().click();
+  await page.getByRole("link", { name: /Merrow South surface met and currents/ }).first().click();
+  await expect(page.getByTestId("upload-dropzone")).toBeVisible();
+  const datasetUrl = page.url();
+  const cdp = await page.context().newCDPSession(page);
+  await cdp.send("Network.emulateNetworkConditions", { offline: false, latency: 5, downloadThroughput: 50e6, uploadThroughput: 0.8e6 });
+  await page.locator(".uppy-Dashboard-input").first().setInputFiles(file);
+  await expect(page.locator(".uppy-StatusBar-statusPrimary")).toContainText(/Uploading/, { timeout: 15_000 });
+  await page.waitForTimeout(3000);
+  await shot(page, "upload-before-reload");
+
+  // The tab reloads mid-upload; the server keeps what arrived.
+  await page.goto(datasetUrl);
+  await cdp.send("Network.emulateNetworkConditions", { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: -1 });
+  const tusCalls: { method: string; url: string; offset: string | null }[] = [];
+  page.on("request", (r) => {
+    if (r.url().includes("/api/uploads")) tusCalls.push({ method: r.method(), url: r.url(), offset: r.headers()["upload-offset"] ?? null });
+  });
+  await page.locator(".uppy-Dashboard-input").first().setInputFiles(file);
+  await expect(page.getByRole("link", { name: "Map columns and process" })).toBeVisible({ timeout: 60_000 });
+  // Resumed, not restarted: a HEAD to the earlier upload, then a PATCH from a non-zero offset, and no new POST.
+  expect(tusCalls.some((c) => c.method === "HEAD")).toBe(true);
+  const patch = tusCalls.find((c) => c.method === "PATCH");
+  expect(Number(patch?.offset)).toBeGreaterThan(0);
+  expect(tusCalls.some((c) => c.method === "POST")).toBe(false);
+  await shot(page, "upload-resumed");
+  await page.getByRole("link", { name: "Map columns and process" }).click();
+  await expect(page.getByTestId("upload-sha256")).toHaveText(sha);
+});
