@@ -176,8 +176,12 @@ const ident = (name: string) => {
 };
 const lit = (s: string) => `'${s.replace(/'/g, "''")}'`;
 
-/** ISO 8601 UTC with Z; fractional seconds only when the time has them (exact round trip either way). */
-const TIME_SQL = `to_char(time at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS') || case when extract(microseconds from time)::int % 1000000 = 0 then '' else to_char(time at time zone 'UTC', '.US') end || 'Z'`;
+/**
+ * ISO 8601 UTC with Z; fractional seconds only when the time has them (exact round trip either way). Built from
+ * PostgreSQL's own timestamptz text with the session zone set to UTC ("2026-03-01 00:00:00.25+00"), which costs
+ * less than half of to_char() on millions of rows.
+ */
+const TIME_SQL = `replace(replace(time::text, ' ', 'T'), '+00', 'Z')`;
 
 /**
  * A platform id comes from the uploaded file, so a spreadsheet could run it as a formula: text cells starting
@@ -230,9 +234,13 @@ async function withClient<T>(fn: (c: PoolClient) => Promise<T>): Promise<T> {
 /** The CSV of a plan, streamed from PostgreSQL's COPY into `out` (which is ended). */
 export async function writeCsv(plan: DownloadPlan, out: Writable): Promise<void> {
   await withClient(async (c) => {
-    await c.query("set statement_timeout = 0");
+    // The time text above needs the session zone UTC; set locally so the pooled connection keeps its settings.
+    await c.query("begin read only");
+    await c.query("set local timezone = 'UTC'");
+    await c.query("set local statement_timeout = 0");
     const copy = c.query(copyTo(`COPY (${downloadSql(plan, "csv")}) TO STDOUT WITH (FORMAT csv, HEADER true)`));
     await pipeline(copy, out);
+    await c.query("commit");
   });
 }
 
