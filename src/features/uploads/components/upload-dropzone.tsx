@@ -77,8 +77,10 @@ export function UploadDropzone({ datasetId, savedMap }: { datasetId: string; sav
     const onAdded = (file: { name?: string; data: Blob | File }) => startCheck(file);
     const onSuccess = (file: { name?: string } | undefined, response: { uploadURL?: string }) => {
       const id = (response.uploadURL ?? "").split("/").pop();
-      void qc.invalidateQueries({ queryKey: uploadKeys.dataset(datasetId) });
-      if (id) setUploaded({ id, name: file?.name ?? "the file" });
+      // Refresh the uploads table first, so the new row is there when the next step is offered.
+      void qc.invalidateQueries({ queryKey: uploadKeys.dataset(datasetId) }).finally(() => {
+        if (id) setUploaded({ id, name: file?.name ?? "the file" });
+      });
     };
     const onError = (_file: unknown, err: unknown) => showToast(tusErrorMessage(err), "error", 12000);
     uppy.on("file-added", onAdded as never);
