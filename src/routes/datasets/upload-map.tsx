@@ -132,7 +132,7 @@ export function Component() {
                       onClick={() => {
                         if (!map) return;
                         setProcessError(null);
-                        process.mutate({ uploadId: u.id, columnMap: map, mode: hasVersions ? mode : "replace" }, { onSuccess: (v) => navigate(`/versions/${v.id}`), onError: (e) => setProcessError(getErrorMessage(e)) });
+                        process.mutate({ uploadId: u.id, columnMap: map, mode: hasVersions ? mode : "replace" }, { onSuccess: (v) => navigate(paths.version(v.id)), onError: (e) => setProcessError(getErrorMessage(e)) });
                       }}
                     >
                       Process this upload
