@@ -27,6 +27,8 @@ import type { SessionUser } from "../middleware/require-session";
 
 /** Steps (s) of the pre-aggregated plot series the pipeline writes. */
 const SERIES_STEPS = PLOT_STEPS_S;
+/** Most records a plot window reads directly (a few tens of milliseconds of heap reads). */
+const MAX_RECORD_ROWS = 12_000;
 /** States whose records are complete. */
 const READABLE: readonly VersionState[] = ["ready", "in_review", "changes_requested", "rejected", "approved", "released", "superseded"];
 
@@ -98,11 +100,19 @@ const isoOf = (s: number) => new Date(Math.round(s * 1000)).toISOString();
  * ones group the records themselves. Output buckets are aligned to multiples of the width (epoch 0), and the window
  * is widened to whole buckets, so every returned bucket holds all of its records.
  */
-export function planWindow(fromS: number, toS: number, buckets: number): { source: "series" | "records"; seriesStep: number | null; stepS: number; from: number; to: number } {
+export function planWindow(
+  fromS: number,
+  toS: number,
+  buckets: number,
+  intervalS: number | null = null,
+  platforms = 1,
+): { source: "series" | "records"; seriesStep: number | null; stepS: number; from: number; to: number } {
   const w = Math.max((toS - fromS) / buckets, 1);
-  // A series serves windows down to half its step (between buckets/2 and buckets points), which keeps reads of the
-  // records themselves to windows of at most buckets × step / 2 seconds.
-  const seriesStep = [...SERIES_STEPS].reverse().find((s) => w >= s / 2) ?? null;
+  // A series serves windows down to half its step (between buckets/2 and buckets points). The records themselves are
+  // read only for finer windows holding at most MAX_RECORD_ROWS rows; above that the finest series answers, with
+  // fewer, wider buckets (min and max stay exact, so no spike is lost).
+  const rows = intervalS ? ((toS - fromS) / intervalS) * platforms : 0;
+  const seriesStep = [...SERIES_STEPS].reverse().find((s) => w >= s / 2) ?? (rows > MAX_RECORD_ROWS ? SERIES_STEPS[0] : null);
   const stepS = seriesStep ? Math.ceil(w / seriesStep) * seriesStep : Math.ceil(w);
   const from = Math.floor(fromS / stepS) * stepS;
   const to = Math.ceil(toS / stepS) * stepS;
@@ -119,7 +129,7 @@ export async function getPlotWindow(user: SessionUser | null | undefined, id: st
   const fromS = input.from ? epoch(input.from) : epoch(extent.start);
   const toS = input.to ? epoch(input.to) : epoch(extent.end) + 1;
   if (!Number.isFinite(fromS) || !Number.isFinite(toS)) return { versionId: v.id, from: input.from ?? "", to: input.to ?? "", stepS: 0, source: "records", extent, platforms, series: [] };
-  const plan = planWindow(fromS, toS, input.buckets);
+  const plan = planWindow(fromS, toS, input.buckets, v.summary?.intervalS ?? null, platformsOf(v, input.platform).length);
   const series = plan.source === "series" ? await seriesBuckets(v, input.variables, input.platform, plan) : await recordBuckets(v, input.variables, input.platform, plan);
   return { versionId: v.id, from: isoOf(plan.from), to: isoOf(plan.to), stepS: plan.stepS, source: plan.source, extent, platforms, series };
 }
@@ -130,36 +140,50 @@ type Plan = ReturnType<typeof planWindow>;
 const platformsOf = (v: ReadableVersion, platform: string | undefined) => (platform !== undefined ? [platform] : (v.summary?.platforms.map((p) => p.id) ?? [""]));
 
 async function seriesBuckets(v: ReadableVersion, variables: string[], platform: string | undefined, plan: Plan): Promise<PlotSeries[]> {
-  // Re-aggregate in PostgreSQL: only the window's slice of each array is unnested, and at most `buckets` rows per
-  // series come back (parsing whole float arrays in Node costs more than the query itself).
+  // PostgreSQL unnests only the window's slice of each array (a few thousand buckets at the level the plan picked);
+  // the fold into output buckets happens here, which costs less than a sort + group in the query.
+  const step = plan.seriesStep!;
   const { rows } = await pool.query({
-    text: `select s.variable, s.platform, floor((s.t0 + (x.lo + g.i - 2) * s.step_s) / $6) * $6 as b,
-                  min(g.mn), max(g.mx), sum(g.me * g.n) / sum(g.n), sum(g.n), max(g.wf) filter (where g.wf <> 9)
+    text: `select s.variable, s.platform, s.t0 + (x.lo + g.i - 2) * s.step_s as t, g.mn, g.mx, g.me, g.n, g.wf
              from plot_series s,
                   lateral (select greatest(1, floor(($4::float8 - s.t0) / s.step_s)::int + 1) as lo, ceil(($5::float8 - s.t0) / s.step_s)::int as hi) x,
                   lateral unnest(s.min[x.lo:x.hi], s.max[x.lo:x.hi], s.mean[x.lo:x.hi], s.n[x.lo:x.hi], s.worst_flag[x.lo:x.hi]) with ordinality as g(mn, mx, me, n, wf, i)
-            where s.version_id = $1 and s.step_s = $2 and s.variable = any($3) and ($7::text is null or s.platform = $7) and g.n > 0
-            group by 1, 2, 3 order by 2, 1, 3`,
-    values: [v.id, plan.seriesStep, variables, plan.from, plan.to, plan.stepS, platform ?? null],
+            where s.version_id = $1 and s.step_s = $2 and s.variable = any($3) and ($6::text is null or s.platform = $6) and g.n > 0`,
+    values: [v.id, step, variables, plan.from, plan.to, platform ?? null],
     rowMode: "array",
   });
-  const out = new Map<string, PlotSeries>();
+  const out = new Map<string, PlotSeries & { sum: number[] }>();
   for (const r of rows as unknown[][]) {
+    const t = Number(r[2]);
+    if (t < plan.from || t >= plan.to) continue;
     const variable = r[0] as string;
     const p = r[1] as string;
     const key = `${p}\u0000${variable}`;
     let s = out.get(key);
-    if (!s) out.set(key, (s = { variable, platform: p, unit: unitOf(variable), t: [], min: [], max: [], mean: [], n: [], worstFlag: [] }));
-    const t = Number(r[2]);
-    if (t < plan.from || t >= plan.to) continue;
-    s.t.push(t);
-    s.min.push(Number(r[3]));
-    s.max.push(Number(r[4]));
-    s.mean.push(Number(r[5]));
-    s.n.push(Number(r[6]));
-    s.worstFlag.push(r[7] === null ? 9 : Number(r[7]));
+    if (!s) out.set(key, (s = { variable, platform: p, unit: unitOf(variable), t: [], min: [], max: [], mean: [], n: [], worstFlag: [], sum: [] }));
+    const b = Math.floor(t / plan.stepS) * plan.stepS;
+    const mn = Number(r[3]);
+    const mx = Number(r[4]);
+    const n = Number(r[6]);
+    const wf = Number(r[7]);
+    const k = s.t.length - 1;
+    // Rows of one series arrive in array order, so a new bucket starts whenever b moves on.
+    if (k < 0 || s.t[k] !== b) {
+      s.t.push(b);
+      s.min.push(mn);
+      s.max.push(mx);
+      s.n.push(n);
+      s.sum.push(Number(r[5]) * n);
+      s.worstFlag.push(wf === 9 ? 0 : wf);
+    } else {
+      if (mn < s.min[k]!) s.min[k] = mn;
+      if (mx > s.max[k]!) s.max[k] = mx;
+      s.n[k]! += n;
+      s.sum[k]! += Number(r[5]) * n;
+      if (wf !== 9 && wf > s.worstFlag[k]!) s.worstFlag[k] = wf;
+    }
   }
-  return [...out.values()].filter((s) => s.t.length > 0);
+  return [...out.values()].map(({ sum, ...s }) => ({ ...s, mean: sum.map((x, i) => x / s.n[i]!), worstFlag: s.worstFlag.map((f) => f || 9) }));
 }
 
 async function recordBuckets(v: ReadableVersion, variables: string[], platform: string | undefined, plan: Plan): Promise<PlotSeries[]> {
