@@ -10,6 +10,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { filterFromParams, filterToParams, useCatalogue, type CatalogueFilter } from "@/features/catalogue/api/get-catalogue";
 import { CatalogueSearch } from "@/features/catalogue/components/catalogue-search";
 import { CatalogueTable } from "@/features/catalogue/components/catalogue-table";
+import { CatalogueMap } from "@/features/catalogue/components/catalogue-map";
 
 export function Component() {
   const [params, setParams] = useSearchParams();
@@ -78,6 +79,7 @@ export function Component() {
           )
         ) : (
           <>
+            <CatalogueMap items={data.items} bbox={filter.bbox} onArea={(bbox) => go({ ...filter, bbox, page: 1 })} />
             <CatalogueTable items={data.items} />
             {pages > 1 ? (
               <nav aria-label="Pages" className="flex items-center justify-between gap-3">

@@ -3,6 +3,7 @@ import type { CitationForms, DatasetLanding } from "@shared/schemas/catalogue";
 import { formatLat, formatLon, formatUtc } from "@/lib/format";
 import { FlagBadge } from "@/components/ui/flag-badge";
 import { Section } from "@/components/ui/section";
+import { BaseMap } from "@/components/map/base-map";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
 import { CopyButton } from "./copy-button";
 
@@ -126,7 +127,19 @@ export function LandingSections({ l }: { l: DatasetLanding }) {
   return (
     <>
       <Section title="Time and place" description="Of the version this page describes; times in UTC.">
-        <CoverageFacts l={l} />
+        <div className="grid gap-4 md:grid-cols-[1fr_16rem]">
+          <CoverageFacts l={l} />
+          {l.bounds ? (
+            <BaseMap
+              label={`Where ${l.title} was measured`}
+              points={[{ id: l.id, lon: (l.bounds.west + l.bounds.east) / 2, lat: (l.bounds.south + l.bounds.north) / 2, label: l.platformName ?? l.title }]}
+              extent={l.bounds.west === l.bounds.east ? undefined : [l.bounds.west, l.bounds.south, l.bounds.east, l.bounds.north]}
+              height={180}
+              viewWidth={320}
+              minPadDeg={3}
+            />
+          ) : null}
+        </div>
       </Section>
       <Section title="Variables" description="One column per variable in its canonical unit, each with a QC flag column. Shares of values by flag.">
         <VariablesTable l={l} />
