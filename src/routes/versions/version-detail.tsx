@@ -3,6 +3,7 @@ import { CAUTION } from "@shared/compute/diagnostics";
 import { paths } from "@/config/paths";
 import { queryClient } from "@/lib/query-client";
 import { Alert } from "@/components/ui/alert";
+import { ButtonLink } from "@/components/ui/button";
 import { EmptyState } from "@/components/ui/empty-state";
 import { FlagLegend } from "@/components/ui/flag-badge";
 import { Loading } from "@/components/ui/loading";
@@ -50,6 +51,13 @@ export function Component() {
               Created <UtcTime iso={v.createdAt} /> {v.createdBy ? `by ${v.createdBy}` : null}
             </span>
           </span>
+        }
+        actions={
+          built ? (
+            <ButtonLink to={paths.versionExplore(v.id)} variant="primary" data-testid="explore-link">
+              Explore: plots, records, QC report, map
+            </ButtonLink>
+          ) : null
         }
       />
 
