@@ -106,4 +106,22 @@ describe("whole-release files", () => {
     }
     expect((await as(null).get(`/api/v1/releases/${f.releaseId}/verify`)).body.ok).toBe(true);
   });
+
+  test("after a retraction the data and files are for members only; the tombstone keeps the checksums", async () => {
+    const [csv] = (await db.select().from(releaseFiles).where(eq(releaseFiles.releaseId, f.releaseId))).filter((x) => x.format === "csv");
+    const title = (await pool.query(`select title from datasets where id = $1`, [f.datasetId])).rows[0].title as string;
+    const listed = async () => (await as(null).get(`/api/v1/catalogue?q=${encodeURIComponent(title)}`)).body.items.some((i: { id: string }) => i.id === f.datasetId);
+    expect(await listed()).toBe(true);
+    const r = await as(f.users.curator.cookie).post(`/api/versions/${f.versionId}/retract`).send({ reason: "Anemometer calibration was wrong for the whole deployment" });
+    expect(r.status).toBe(200);
+    expect((await as(null).get(`/api/v1/versions/${f.versionId}/download`)).status).toBe(401);
+    expect((await as(f.users.outsider.cookie).get(`/api/v1/versions/${f.versionId}/download`)).status).toBe(403);
+    expect((await as(null).get(`/api/v1/releases/${f.releaseId}/files/${csv!.name}`)).status).toBe(401);
+    expect((await as(f.users.contributor.cookie).get(`/api/v1/releases/${f.releaseId}/files/${csv!.name}`)).status).toBe(200);
+    const tomb = await as(null).get(`/api/v1/releases/${f.releaseId}`);
+    expect(tomb.body.retracted.reason).toContain("calibration");
+    expect(tomb.body.files.map((x: { sha256: string }) => x.sha256)).toContain(csv!.sha256);
+    // Gone from the catalogue at once.
+    expect(await listed()).toBe(false);
+  });
 });
