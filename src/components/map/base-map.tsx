@@ -101,7 +101,7 @@ function boundsOf(points: MapPoint[], tracks: MapTrack[], circles: MapCircle[]):
 export function BaseMap({ points = [], tracks = [], circles = [], colourBy = "value", valueLabel = "Speed", valueUnit = "m s-1", extent, drawRectangle, onBbox, label, height = 420, className, minPadDeg = 0.5, viewWidth = 800 }: BaseMapProps) {
   const W = viewWidth;
   const [land, setLand] = useState<Land | null>(null);
-  const [drag, setDrag] = useState<{ x0: number; y0: number; x1: number; y1: number } | null>(null);
+  const [drag, setDrag] = useState<{ x0: number; y0: number; x1: number; y1: number; done?: boolean } | null>(null);
   const svgRef = useRef<SVGSVGElement>(null);
   const titleId = useId();
   useEffect(() => {
@@ -153,10 +153,11 @@ export function BaseMap({ points = [], tracks = [], circles = [], colourBy = "va
     return [((e.clientX - r.left) / r.width) * W, ((e.clientY - r.top) / r.height) * height] as const;
   };
   const finish = () => {
-    if (!drag || !onBbox) return setDrag(null);
+    if (!drag || drag.done || !onBbox) return setDrag(null);
     const a = projection.invert!([Math.min(drag.x0, drag.x1), Math.max(drag.y0, drag.y1)]);
     const b = projection.invert!([Math.max(drag.x0, drag.x1), Math.min(drag.y0, drag.y1)]);
-    setDrag(null);
+    // The drawn box stays on the map until the next drag.
+    setDrag({ ...drag, done: true });
     if (a && b && Math.abs(drag.x1 - drag.x0) > 4 && Math.abs(drag.y1 - drag.y0) > 4) {
       const round = (x: number) => Math.round(x * 1000) / 1000;
       onBbox([round(a[0]), round(a[1]), round(b[0]), round(b[1])]);
@@ -184,7 +185,7 @@ export function BaseMap({ points = [], tracks = [], circles = [], colourBy = "va
               }
             : undefined
         }
-        onPointerMove={drawRectangle && drag ? (e) => setDrag({ ...drag, x1: toSvg(e)[0], y1: toSvg(e)[1] }) : undefined}
+        onPointerMove={drawRectangle && drag && !drag.done ? (e) => setDrag({ ...drag, x1: toSvg(e)[0], y1: toSvg(e)[1] }) : undefined}
         onPointerUp={drawRectangle ? finish : undefined}
       >
         <title id={titleId}>{label}</title>
@@ -252,7 +253,7 @@ export function BaseMap({ points = [], tracks = [], circles = [], colourBy = "va
             </g>
           );
         })}
-        {drag ? (
+        {drag && drawRectangle ? (
           <rect
             x={Math.min(drag.x0, drag.x1)}
             y={Math.min(drag.y0, drag.y1)}

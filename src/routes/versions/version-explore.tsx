@@ -8,6 +8,7 @@ import { canContribute, useMe } from "@/lib/session";
 import { showToast } from "@/lib/toast";
 import { useDocumentTitle } from "@/lib/use-document-title";
 import { Alert } from "@/components/ui/alert";
+import { Button } from "@/components/ui/button";
 import { Loading } from "@/components/ui/loading";
 import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
@@ -172,7 +173,23 @@ export function Component() {
                 platforms={v.summary.platforms.map((p) => p.id)}
               />
               {member ? (
-                <Section title="Annotations" description="Notes and manual flags on stretches of this dataset. They carry over to every later version; each change is in the audit log.">
+                <Section
+                  title="Annotations"
+                  description="Notes and manual flags on stretches of this dataset. They carry over to every later version; each change is in the audit log."
+                  action={
+                    <Button
+                      size="sm"
+                      variant="secondary"
+                      onClick={() => {
+                        setEditing(null);
+                        setMarked({ from: from ?? v.summary!.start!, to: to ?? v.summary!.end! });
+                        window.scrollTo({ top: 0, behavior: "smooth" });
+                      }}
+                    >
+                      Annotate the window shown…
+                    </Button>
+                  }
+                >
                   <AnnotationList
                     datasetId={v.datasetId}
                     items={annotations.data?.items ?? []}

@@ -80,7 +80,7 @@ export function AnnotationForm({
       <div className="flex flex-wrap gap-3">
         <label className="flex flex-col gap-1 text-sm">
           <span className="font-semibold">From (UTC)</span>
-          <input className={`num ${field}`} value={from} onChange={(e) => setFrom(e.target.value)} aria-invalid={!!errors.from} data-testid="annotation-from" />
+          <input className={`num ${field}`} value={from} onChange={(e) => setFrom(e.target.value)} aria-invalid={!!errors.from} data-testid="annotation-from" autoFocus />
           {errors.from ? <span className="text-signal">{errors.from}</span> : null}
         </label>
         <label className="flex flex-col gap-1 text-sm">

@@ -1,5 +1,5 @@
 import { useState } from "react";
-import { BaseMap } from "@/components/map/base-map";
+import { BaseMap, type Bbox } from "@/components/map/base-map";
 import { Alert } from "@/components/ui/alert";
 import { Loading } from "@/components/ui/loading";
 import { getErrorMessage } from "@/lib/api-client";
@@ -12,6 +12,8 @@ import { useTrack } from "../api/get-plot-window";
 export function VersionMap({ versionId, height = 420 }: { versionId: string; height?: number }) {
   const q = useTrack(versionId);
   const [colourBy, setColourBy] = useState<"value" | "flag">("value");
+  const [drawing, setDrawing] = useState(false);
+  const [bbox, setBbox] = useState<Bbox | null>(null);
   if (q.isPending) return <Loading label="Loading the map…" />;
   if (q.error) return <Alert tone="attention" title="The map could not be loaded">{getErrorMessage(q.error)}</Alert>;
   const t = q.data;
@@ -42,7 +44,19 @@ export function VersionMap({ versionId, height = 420 }: { versionId: string; hei
       {!points.length && !tracks.length ? (
         <Alert tone="info">This version has no positions and its deployment no nominal position, so there is nothing to place on the map. Add the position to the deployment.</Alert>
       ) : null}
+      <div className="flex flex-wrap items-center gap-3 text-sm">
+        <label className="inline-flex items-center gap-1">
+          <input type="checkbox" checked={drawing} onChange={(e) => setDrawing(e.target.checked)} data-testid="draw-box" /> Drag on the map to read an area's bounds
+        </label>
+        {bbox ? (
+          <output className="num rounded border border-line bg-surface px-2 py-0.5" data-testid="map-bbox">
+            W {bbox[0]}°, S {bbox[1]}°, E {bbox[2]}°, N {bbox[3]}°
+          </output>
+        ) : null}
+      </div>
       <BaseMap
+        drawRectangle={drawing}
+        onBbox={setBbox}
         label={t.kind === "mooring" ? "Mooring position and watch circle" : "Drifter tracks"}
         points={points}
         circles={circles}
