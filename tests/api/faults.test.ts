@@ -134,7 +134,8 @@ describe("storage fails while a file arrives", () => {
 });
 
 describe("PostgreSQL restarted under a running API", () => {
-  const dir = ".pg-faults";
+  // A cluster per run (parallel runs of the suite never share it), removed afterwards.
+  const dir = `.pg-faults/${process.pid}`;
   let port = 0;
   let url = "";
   const pgctl = (...args: string[]) => execFileSync("bash", ["scripts/pg.sh", ...args], { stdio: "inherit" });
@@ -150,7 +151,10 @@ describe("PostgreSQL restarted under a running API", () => {
     await c.end();
     execFileSync(process.execPath, ["--import", "tsx", "server/db/migrate.ts"], { env: { ...process.env, DATABASE_URL: url, LOG_LEVEL: "warn" }, stdio: "inherit" });
   }, 120_000);
-  afterAll(() => pgctl("stop", dir));
+  afterAll(() => {
+    pgctl("stop", dir);
+    rmSync(dir, { recursive: true, force: true });
+  });
 
   test("while it is down requests get 503 with a clear message; afterwards the same process answers again", { timeout: 120_000 }, async () => {
     const api = await startApi({ DATABASE_URL: url });
