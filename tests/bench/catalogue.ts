@@ -13,7 +13,7 @@ import { join, resolve } from "node:path";
 import autocannon from "autocannon";
 import pg from "pg";
 import { seededRandom } from "../../shared/demo/generate";
-import { runChild } from "./download";
+import { RESULT_MARK, runChild } from "./download";
 import type { BenchContext } from "./run";
 
 const CLIENTS = 50;
@@ -125,7 +125,10 @@ async function child() {
   // The same clients on the health check first: the floor this machine gives any request right now.
   const floor = await load(["/api/health"], 5);
   const { result, latencies, errors } = await load(paths, DURATION_S);
-  server.close();
+  // Let requests still in flight finish before the pool goes.
+  server.closeAllConnections();
+  await new Promise((r) => server.close(r));
+  await new Promise((r) => setTimeout(r, 500));
   await pool.end();
   const figures = {
     clients: CLIENTS,
@@ -139,7 +142,7 @@ async function child() {
     health_p95_ms: Number(pct(floor.latencies, 95).toFixed(1)),
   };
   log(JSON.stringify(figures));
-  process.stdout.write(JSON.stringify(figures) + "\n");
+  process.stdout.write(RESULT_MARK + JSON.stringify(figures) + "\n");
 }
 
 // Only when this file itself is the child (the catalogue part imports runChild from the download part).

@@ -20,6 +20,8 @@ import { demoMooringColumnMap, demoMooringDefaults } from "../../shared/demo/gen
 import type { BenchContext } from "./run";
 
 const ROUNDS = 3;
+/** Prefix of the child's result line on stdout. */
+export const RESULT_MARK = "BENCH_RESULT ";
 
 /** Runs the measurement in a child process and returns its figures (last stdout line). */
 export function runChild(file: string, ctx: BenchContext, env: Record<string, string> = {}): Promise<Record<string, number | string>> {
@@ -29,8 +31,10 @@ export function runChild(file: string, ctx: BenchContext, env: Record<string, st
     child.stdout.on("data", (b) => (out += b));
     child.on("exit", (code) => {
       if (code !== 0) return reject(new Error(`${file} exited with ${code}`));
-      const last = out.trim().split("\n").at(-1) ?? "{}";
-      resolvePromise(JSON.parse(last));
+      // The figures come on a marked line: the app's own log lines may share stdout.
+      const line = out.split("\n").findLast((l) => l.startsWith(RESULT_MARK));
+      if (!line) return reject(new Error(`${file} printed no result`));
+      resolvePromise(JSON.parse(line.slice(RESULT_MARK.length)));
     });
   });
 }
@@ -165,7 +169,8 @@ async function child() {
   const best = (xs: { mb: number; s: number }[]) => Math.max(...xs.map((x) => x.mb / x.s));
   const csv = best(csvRuns);
   const copy = best(copyRuns);
-  server.close();
+  server.closeAllConnections();
+  await new Promise((r) => server.close(r));
   await pool.end();
   const figures = {
     rows: csvRuns[0]!.rows,
@@ -174,7 +179,7 @@ async function child() {
     copy_mb_per_s: Number(copy.toFixed(1)),
     ratio: Number((csv / copy).toFixed(2)),
   };
-  process.stdout.write(JSON.stringify(figures) + "\n");
+  process.stdout.write(RESULT_MARK + JSON.stringify(figures) + "\n");
 }
 
 // Only when this file itself is the child (the catalogue part imports runChild from the download part).
