@@ -1,7 +1,8 @@
 /**
  * Bench part "download" (issue 8): the CSV download of a ~2.7-million-row version (the month-at-1-Hz demo mooring)
  * over HTTP, against a raw `COPY (same rows, same columns) TO STDOUT WITH (FORMAT csv)` read straight from
- * PostgreSQL, in the same run. Figures: csv_mb_per_s, copy_mb_per_s and ratio (goal ≥ 0.7), best of three each.
+ * PostgreSQL, in the same run, alternating. Figures: csv_mb_per_s and copy_mb_per_s (medians of three rounds) and ratio
+ * (median of the three rounds' csv/copy ratios; goal ≥ 0.7).
  *
  * The work runs in a child process (this file with --child) so its database pool and environment never meet
  * other parts'. It shares the plot part's database and version ("Bench plot month"), building it once if absent.
@@ -166,9 +167,11 @@ async function child() {
     csvRuns.push(await csvOnce());
     log(`round ${i + 1}: csv ${(csvRuns[i]!.mb / csvRuns[i]!.s).toFixed(1)} MB/s (${csvRuns[i]!.mb.toFixed(0)} MB), copy ${(copyRuns[i]!.mb / copyRuns[i]!.s).toFixed(1)} MB/s (${copyRuns[i]!.mb.toFixed(0)} MB)`);
   }
-  const best = (xs: { mb: number; s: number }[]) => Math.max(...xs.map((x) => x.mb / x.s));
-  const csv = best(csvRuns);
-  const copy = best(copyRuns);
+  // Medians: on a shared machine one lucky round of either side would decide a best-of ratio.
+  const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
+  const csv = median(csvRuns.map((x) => x.mb / x.s));
+  const copy = median(copyRuns.map((x) => x.mb / x.s));
+  const ratio = median(csvRuns.map((x, i) => x.mb / x.s / (copyRuns[i]!.mb / copyRuns[i]!.s)));
   server.closeAllConnections();
   await new Promise((r) => server.close(r));
   await pool.end();
@@ -177,7 +180,7 @@ async function child() {
     csv_mb: Number(csvRuns[0]!.mb.toFixed(1)),
     csv_mb_per_s: Number(csv.toFixed(1)),
     copy_mb_per_s: Number(copy.toFixed(1)),
-    ratio: Number((csv / copy).toFixed(2)),
+    ratio: Number(ratio.toFixed(2)),
   };
   process.stdout.write(RESULT_MARK + JSON.stringify(figures) + "\n");
 }
