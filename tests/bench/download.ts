@@ -160,8 +160,8 @@ async function child() {
     const ms = performance.now() - t;
     return { mb: bytes / 1e6, s: ms / 1000, rows: lines - 1 };
   };
-  const csvRuns = [];
-  const copyRuns = [];
+  const csvRuns: { mb: number; s: number; rows: number }[] = [];
+  const copyRuns: { mb: number; s: number }[] = [];
   for (let i = 0; i < ROUNDS; i++) {
     copyRuns.push(await copyOnce());
     csvRuns.push(await csvOnce());
