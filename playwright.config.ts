@@ -41,6 +41,8 @@ export default defineConfig({
       SMTP_PORT: process.env.E2E_SMTP_PORT,
       PUBLIC_URL: baseURL,
       DEMO: "1",
+      // Browser tests create their own versions; the demo's generated series would only get in their way.
+      DEMO_SERIES: "0",
       NODE_ENV: "test",
       LOG_LEVEL: "warn",
       STORAGE_DIR: `storage-e2e/${process.env.E2E_PORT}`,

@@ -106,6 +106,12 @@ export async function seedDemo(db: Db) {
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
   const { db, pool } = await import("./client");
   await seedDemo(db);
+  if (process.env.DEMO_SERIES !== "0") {
+    const { seedDemoSeries } = await import("./seed-series");
+    await seedDemoSeries(db, (m) => console.log(m));
+  }
+  const { stopSender } = await import("../jobs/queue");
+  await stopSender();
   await pool.end();
   console.log("demo data seeded");
 }
