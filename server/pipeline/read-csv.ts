@@ -2,6 +2,7 @@ import { createReadStream } from "node:fs";
 import Papa from "papaparse";
 import type { ColumnMap } from "../../shared/schemas/column-map";
 import { createCanonicalizer, type Canonicalizer, type ParseWarning, type RecordChunk } from "../../shared/compute/canonical";
+import { splitLine } from "../../shared/sniff/dialect";
 
 /**
  * Streaming ingest shared by the worker (server/pipeline/build.ts) and `tauline check` (cli/check.ts): a delimited
@@ -48,7 +49,11 @@ export async function openCanonicalStream(path: string, map: ColumnMap, opts: St
   let firstRead = true;
   let line = 1;
   let done = false;
-  const parse = (text: string) => Papa.parse<string[]>(text, { delimiter: map.delimiter }).data;
+  // "Spaces" means runs of blanks and tabs, as the upload sniffer reads it (shared/sniff splitLine).
+  const parse =
+    map.delimiter === " "
+      ? (text: string) => text.split(/\r\n|\n|\r/).map((l) => splitLine(l, " "))
+      : (text: string) => Papa.parse<string[]>(text, { delimiter: map.delimiter }).data;
 
   /** Next piece of text holding whole lines, or null at the end. */
   const nextPiece = async (): Promise<string | null> => {
