@@ -84,7 +84,11 @@ export function Component() {
                   : "Nothing has been released for this dataset yet."}
               </EmptyState>
             ) : (
-              <VersionsTable items={d.versions} linkTo={member ? (v) => paths.reviewVersion(v.id) : undefined} />
+              <VersionsTable
+                items={d.versions}
+                // Versions still being built (or that failed) open their progress page; built ones their review page.
+                linkTo={member ? (v) => (["draft", "processing", "failed"].includes(v.state) ? paths.version(v.id) : paths.reviewVersion(v.id)) : undefined}
+              />
             )}
           </Section>
 
