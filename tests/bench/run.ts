@@ -7,6 +7,8 @@
 import { createWriteStream, existsSync, mkdirSync, readFileSync, renameSync, statSync, writeFileSync } from "node:fs";
 import { once } from "node:events";
 import { join, resolve } from "node:path";
+import { spawn } from "node:child_process";
+import { fileURLToPath } from "node:url";
 import { demoMooringDefaults, mooringCsv, type MooringOptions } from "../../shared/demo/generate";
 
 export interface BenchContext {
@@ -50,6 +52,17 @@ async function mooringCsvPath(): Promise<string> {
   return path;
 }
 
+/** Runs one part as `run.ts --only NAME` in a child process; its last stdout line is the figures. */
+async function runAlone(name: string): Promise<unknown> {
+  const child = spawn(process.execPath, ["--import", "tsx", fileURLToPath(import.meta.url), "--only", name], { stdio: ["ignore", "pipe", "inherit"] });
+  let out = "";
+  child.stdout.on("data", (b) => (out += b));
+  const [code] = (await once(child, "exit")) as [number | null];
+  const last = out.trim().split("\n").pop() ?? "";
+  if (code !== 0 || !last.startsWith("{")) throw new Error(`bench part ${name} failed (exit ${code})`);
+  return (JSON.parse(last) as Record<string, unknown>)[name];
+}
+
 async function main() {
   const args = process.argv.slice(2);
   const i = args.indexOf("--only");
@@ -62,10 +75,15 @@ async function main() {
   mkdirSync(dir, { recursive: true });
   const ctx: BenchContext = { dir, mooringCsv: mooringCsvPath, mooringOptions, log };
   const results: Record<string, unknown> = {};
-  for (const name of only) {
+  if (only.length === 1) {
+    const name = only[0]!;
     log(`running ${name}`);
     const part = await parts[name]!();
     results[name] = await part.run(ctx);
+  } else {
+    // Each part in a process of its own: parts end the shared database pool and set their own environment, so
+    // one part's module state must never reach the next.
+    for (const name of only) results[name] = await runAlone(name);
   }
   const file = join(dir, "results.json");
   let previous: Record<string, unknown> = {};
