@@ -1,4 +1,5 @@
 import { betterAuth } from "better-auth";
+import { MemoryStore } from "express-rate-limit";
 import { drizzleAdapter } from "better-auth/adapters/drizzle";
 import { APIError, createAuthMiddleware } from "better-auth/api";
 import { admin } from "better-auth/plugins";
@@ -9,6 +10,12 @@ import { isCommonPassword } from "./lib/password-policy";
 import { sendMail } from "./mail/send";
 
 const PASSWORD_PATHS = new Set(["/sign-up/email", "/reset-password", "/change-password"]);
+
+// Per-account limit on top of the per-IP one (server/middleware/rate-limit.ts): keyed by the e-mail address
+// submitted, whether or not an account has it, so the answer tells nothing about which addresses exist.
+const ACCOUNT_PATHS = new Set(["/sign-in/email", "/sign-up/email", "/request-password-reset", "/send-verification-email"]);
+const accountAttempts = new MemoryStore();
+accountAttempts.init({ windowMs: env.AUTH_RATE_WINDOW_S * 1000 } as Parameters<MemoryStore["init"]>[0]);
 
 export const auth = betterAuth({
   appName: "Tauline",
@@ -62,8 +69,17 @@ export const auth = betterAuth({
   advanced: { useSecureCookies: env.PUBLIC_URL.startsWith("https://") },
   hooks: {
     before: createAuthMiddleware(async (ctx) => {
+      const body = (ctx.body ?? {}) as { email?: unknown; password?: unknown; newPassword?: unknown };
+      if (ACCOUNT_PATHS.has(ctx.path) && typeof body.email === "string") {
+        const { totalHits } = await accountAttempts.increment(`${ctx.path}:${body.email.trim().toLowerCase()}`);
+        if (totalHits > env.AUTH_ACCOUNT_RATE_LIMIT) {
+          throw new APIError("TOO_MANY_REQUESTS", {
+            code: "TOO_MANY_ATTEMPTS",
+            message: `Too many attempts for this account; wait ${env.AUTH_RATE_WINDOW_S} seconds and try again`,
+          });
+        }
+      }
       if (!PASSWORD_PATHS.has(ctx.path)) return;
-      const body = (ctx.body ?? {}) as { password?: unknown; newPassword?: unknown };
       const pw = typeof body.newPassword === "string" ? body.newPassword : body.password;
       if (typeof pw === "string" && isCommonPassword(pw)) {
         throw new APIError("BAD_REQUEST", {

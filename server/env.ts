@@ -19,6 +19,8 @@ const envSchema = z.object({
   /** Sign-in attempts allowed per window (per IP); lowered in tests of the limiter. */
   AUTH_RATE_LIMIT: z.coerce.number().int().positive().default(10),
   AUTH_RATE_WINDOW_S: z.coerce.number().int().positive().default(60),
+  /** Attempts per window per e-mail address on sign-in, sign-up and reset requests. */
+  AUTH_ACCOUNT_RATE_LIMIT: z.coerce.number().int().positive().default(10),
   /** Require a verified e-mail before sign-in. */
   REQUIRE_EMAIL_VERIFICATION: z.stringbool().default(true),
 });

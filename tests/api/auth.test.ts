@@ -98,6 +98,19 @@ describe("sign-in", () => {
     expect(statuses).toEqual([401, 401, 401, 429]);
   });
 
+  test("is rate-limited per account too: the 11th attempt on one address in a minute gets 429, known or not", async () => {
+    // An address with no account is limited exactly like a real one, so the limit reveals nothing.
+    const email = newEmail();
+    const statuses: number[] = [];
+    for (let i = 0; i < 10; i++) statuses.push((await signInRaw(email, `wrong-password-number-${i}`)).status);
+    expect(statuses).toEqual(Array(10).fill(401));
+    const last = await signInRaw(email, PASSWORD);
+    expect(last.status).toBe(429);
+    expect(last.body.code).toBe("TOO_MANY_ATTEMPTS");
+    // Another address from the same client is unaffected.
+    expect((await signInRaw(newEmail(), "whatever-password-1")).status).toBe(401);
+  });
+
   test("signing out ends the session", async () => {
     const u = await createTestUser();
     const out = await as(u.cookie).post("/api/auth/sign-out").send({});
