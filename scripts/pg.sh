@@ -38,7 +38,11 @@ case "$cmd" in
     fi
     if ! as_pg "$PGBIN/pg_ctl" status -D "$data" >/dev/null 2>&1; then
       as_pg "$PGBIN/pg_ctl" start -D "$data" -w -t 60 -l "$dir/server.log" \
-        -o "-k '' -p $port -c listen_addresses=127.0.0.1 -c fsync=${PG_FSYNC:-on} -c max_connections=200" >/dev/null
+        -o "-k '' -p $port -c listen_addresses=127.0.0.1 -c fsync=${PG_FSYNC:-on} -c max_connections=200" >/dev/null || {
+        echo "PostgreSQL in $dir did not start on 127.0.0.1:$port; the end of its log:" >&2
+        tail -n 4 "$dir/server.log" >&2
+        exit 1
+      }
     fi
     as_pg "$PGBIN/psql" -h 127.0.0.1 -p "$port" -U postgres -d postgres -tAc \
       "select 1 from pg_database where datname='$db'" | grep -q 1 \
