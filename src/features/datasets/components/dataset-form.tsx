@@ -4,7 +4,7 @@ import { useForm } from "react-hook-form";
 import { createDatasetInputSchema, licences, updateDatasetInputSchema, type CreateDatasetInput, type Dataset } from "@shared/schemas/datasets";
 import { applyServerErrors } from "@/lib/form-errors";
 import { Alert } from "@/components/ui/alert";
-import { Button } from "@/components/ui/button";
+import { FormActions } from "@/components/ui/form-actions";
 import { SelectField, TextareaField, TextField } from "@/components/ui/field";
 import { useCreateDataset } from "../api/create-dataset";
 import { useUpdateDataset } from "../api/update-dataset";
@@ -52,14 +52,7 @@ export function CreateDatasetForm({
       />
       <SelectField label="Licence" hint="Applies to every released version." options={licenceOptions} error={formState.errors.licence?.message} {...register("licence")} />
       <TextareaField className="sm:col-span-2" label="Description (optional)" error={formState.errors.description?.message} {...register("description")} />
-      <div className="flex gap-2 sm:col-span-2">
-        <Button type="submit" busy={formState.isSubmitting} disabled={formState.isSubmitting}>
-          Create dataset
-        </Button>
-        <Button variant="secondary" onClick={onCancel}>
-          Cancel
-        </Button>
-      </div>
+      <FormActions submitLabel="Create dataset" busy={formState.isSubmitting} onCancel={onCancel} className="sm:col-span-2" />
     </form>
   );
 }
@@ -88,14 +81,7 @@ export function EditDatasetForm({ dataset, onDone, onCancel }: { dataset: Datase
       <TextField className="sm:col-span-2" label="Dataset title" error={formState.errors.title?.message} {...register("title")} />
       <SelectField label="Licence" options={licenceOptions} error={formState.errors.licence?.message} {...register("licence")} />
       <TextareaField className="sm:col-span-2" label="Description" error={formState.errors.description?.message} {...register("description")} />
-      <div className="flex gap-2 sm:col-span-2">
-        <Button type="submit" busy={formState.isSubmitting} disabled={formState.isSubmitting}>
-          Save dataset
-        </Button>
-        <Button variant="secondary" onClick={onCancel}>
-          Cancel
-        </Button>
-      </div>
+      <FormActions submitLabel="Save dataset" busy={formState.isSubmitting} onCancel={onCancel} className="sm:col-span-2" />
     </form>
   );
 }

@@ -10,7 +10,7 @@ import {
 import { applyServerErrors } from "@/lib/form-errors";
 import { isoToUtcInput, utcInputToIso } from "@/lib/format";
 import { Alert } from "@/components/ui/alert";
-import { Button } from "@/components/ui/button";
+import { FormActions } from "@/components/ui/form-actions";
 import { TextareaField, TextField } from "@/components/ui/field";
 import { useCreateDeployment } from "../api/create-deployment";
 import { useUpdateDeployment } from "../api/update-deployment";
@@ -197,14 +197,7 @@ export function DeploymentForm({
 
       <TextareaField label="Notes (optional)" hint="Anything a curator should know: sensor swaps, fouling, recovery remarks." error={e.notes?.message} {...register("notes")} />
 
-      <div className="flex flex-wrap gap-2">
-        <Button type="submit" busy={formState.isSubmitting} disabled={formState.isSubmitting}>
-          {deployment ? "Save deployment" : "Create deployment"}
-        </Button>
-        <Button variant="secondary" onClick={onCancel}>
-          Cancel
-        </Button>
-      </div>
+      <FormActions submitLabel={deployment ? "Save deployment" : "Create deployment"} busy={formState.isSubmitting} onCancel={onCancel} className="flex-wrap" />
     </form>
   );
 }

@@ -5,7 +5,7 @@ import { createPlatformInputSchema, updatePlatformInputSchema, type CreatePlatfo
 import type { z } from "zod";
 import { applyServerErrors } from "@/lib/form-errors";
 import { Alert } from "@/components/ui/alert";
-import { Button } from "@/components/ui/button";
+import { FormActions } from "@/components/ui/form-actions";
 import { SelectField, TextareaField, TextField } from "@/components/ui/field";
 import { useCreatePlatform } from "../api/create-platform";
 import { useUpdatePlatform } from "../api/update-platform";
@@ -53,14 +53,7 @@ export function CreatePlatformForm({ projectId, onDone, onCancel }: { projectId:
     <form onSubmit={onSubmit} noValidate aria-label="New platform" className="grid gap-4 sm:grid-cols-2">
       {formError ? <Alert tone="attention" className="sm:col-span-2">{formError}</Alert> : null}
       <PlatformFields form={form} />
-      <div className="flex gap-2 sm:col-span-2">
-        <Button type="submit" busy={form.formState.isSubmitting} disabled={form.formState.isSubmitting}>
-          Create platform
-        </Button>
-        <Button variant="secondary" onClick={onCancel}>
-          Cancel
-        </Button>
-      </div>
+      <FormActions submitLabel="Create platform" busy={form.formState.isSubmitting} onCancel={onCancel} className="sm:col-span-2" />
     </form>
   );
 }
@@ -85,14 +78,7 @@ export function EditPlatformForm({ platform, onDone, onCancel }: { platform: Pla
     <form onSubmit={onSubmit} noValidate aria-label="Edit platform" className="grid gap-4 sm:grid-cols-2">
       {formError ? <Alert tone="attention" className="sm:col-span-2">{formError}</Alert> : null}
       <PlatformFields form={form} />
-      <div className="flex gap-2 sm:col-span-2">
-        <Button type="submit" busy={form.formState.isSubmitting} disabled={form.formState.isSubmitting}>
-          Save platform
-        </Button>
-        <Button variant="secondary" onClick={onCancel}>
-          Cancel
-        </Button>
-      </div>
+      <FormActions submitLabel="Save platform" busy={form.formState.isSubmitting} onCancel={onCancel} className="sm:col-span-2" />
     </form>
   );
 }

@@ -5,7 +5,7 @@ import { createProjectInputSchema, updateProjectInputSchema, type CreateProjectI
 import type { z } from "zod";
 import { applyServerErrors } from "@/lib/form-errors";
 import { Alert } from "@/components/ui/alert";
-import { Button } from "@/components/ui/button";
+import { FormActions } from "@/components/ui/form-actions";
 import { TextareaField, TextField } from "@/components/ui/field";
 import { useCreateProject } from "../api/create-project";
 import { useUpdateProject } from "../api/update-project";
@@ -55,14 +55,7 @@ export function CreateProjectForm({ onDone, onCancel }: { onDone: (p: Project) =
         {...register("slug")}
       />
       <TextareaField className="sm:col-span-2" label="Description (optional)" error={formState.errors.description?.message} {...register("description")} />
-      <div className="flex gap-2 sm:col-span-2">
-        <Button type="submit" busy={formState.isSubmitting} disabled={formState.isSubmitting}>
-          Create project
-        </Button>
-        <Button variant="secondary" onClick={onCancel}>
-          Cancel
-        </Button>
-      </div>
+      <FormActions submitLabel="Create project" busy={formState.isSubmitting} onCancel={onCancel} className="sm:col-span-2" />
     </form>
   );
 }
@@ -94,14 +87,7 @@ export function EditProjectForm({ project, onDone, onCancel }: { project: Projec
         {...register("slug")}
       />
       <TextareaField className="sm:col-span-2" label="Description" error={formState.errors.description?.message} {...register("description")} />
-      <div className="flex gap-2 sm:col-span-2">
-        <Button type="submit" busy={formState.isSubmitting} disabled={formState.isSubmitting}>
-          Save project
-        </Button>
-        <Button variant="secondary" onClick={onCancel}>
-          Cancel
-        </Button>
-      </div>
+      <FormActions submitLabel="Save project" busy={formState.isSubmitting} onCancel={onCancel} className="sm:col-span-2" />
     </form>
   );
 }
