@@ -164,7 +164,9 @@ describe("POST /api/datasets/:id/versions", () => {
   test("cancel stops a running build, keeps nothing, and retry builds it", async () => {
     const { contributor } = roles.users;
     const { datasetId } = await makeMooringDataset(roles.projectId);
-    const uploadId = await storeUpload(datasetId, contributor.id, mooringText({ start: day, durationS: 86400, intervalS: 1 }));
+    // Four days at 1 Hz: long enough that the cancel lands while the build is still reading, even on a quiet machine.
+    const durationS = 4 * 86400;
+    const uploadId = await storeUpload(datasetId, contributor.id, mooringText({ start: day, durationS, intervalS: 1 }));
     const res = await as(contributor.cookie).post(`/api/datasets/${datasetId}/versions`).send({ uploadId, columnMap: mooringMap(), mode: "replace" });
     expect(res.status).toBe(201);
     const id = res.body.id as string;
@@ -186,7 +188,7 @@ describe("POST /api/datasets/:id/versions", () => {
     expect(r.status).toBe(200);
     expect(r.body.versionState).toBe("processing");
     expect((await waitForVersion(id, ["ready", "failed"], 120_000)).state).toBe("ready");
-    expect(await countRows(datasetId)).toBe(86400);
+    expect(await countRows(datasetId)).toBe(durationS);
   }, 240_000);
 });
 
