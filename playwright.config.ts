@@ -43,6 +43,10 @@ export default defineConfig({
       DEMO: "1",
       // Browser tests create their own versions; the demo's generated series would only get in their way.
       DEMO_SERIES: "0",
+      // The journeys sign the same demo people in many times a minute from one address; the limits
+      // themselves are tested in tests/api/auth.test.ts.
+      AUTH_RATE_LIMIT: "1000",
+      AUTH_ACCOUNT_RATE_LIMIT: "1000",
       NODE_ENV: "test",
       LOG_LEVEL: "warn",
       STORAGE_DIR: `storage-e2e/${process.env.E2E_PORT}`,
