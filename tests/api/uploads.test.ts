@@ -1,4 +1,5 @@
 import { existsSync, readdirSync, readFileSync } from "node:fs";
+import http from "node:http";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { mooringCsv, demoMooringDefaults } from "../../shared/demo/generate";
@@ -57,6 +58,40 @@ describe("tus upload to /api/uploads", () => {
     const list = await as(ctx.users.curator.cookie).get(`/api/datasets/${ds.datasetId}/uploads`);
     expect(list.status).toBe(200);
     expect(list.body.items[0]).toMatchObject({ id, originalName: "M-1 March.csv", sizeBytes: data.length, sha256: sha256(data), uploaderName: "Contributor" });
+  });
+
+  test("a connection dropped in the middle of a PATCH keeps the bytes that arrived, and the upload resumes from there", async () => {
+    const data = demoCsv(60_000); // ~4 MB
+    const created = await fetch(`${app.base}/api/uploads`, {
+      method: "POST",
+      headers: { cookie: ctx.users.contributor.cookie, "Tus-Resumable": "1.0.0", "Upload-Length": String(data.length), "Upload-Metadata": `datasetId ${Buffer.from(ds.datasetId).toString("base64")}` },
+    });
+    expect(created.status).toBe(201);
+    const location = new URL(created.headers.get("location")!, app.base);
+    // One PATCH that announces the whole file, sends 3 MiB, then drops the connection.
+    const sent = 3 << 20;
+    await new Promise<void>((resolve) => {
+      const req = http.request(location, {
+        method: "PATCH",
+        headers: { cookie: ctx.users.contributor.cookie, "Tus-Resumable": "1.0.0", "Upload-Offset": "0", "Content-Type": "application/offset+octet-stream", "Content-Length": String(data.length) },
+      });
+      req.on("error", () => resolve());
+      req.on("response", () => resolve());
+      req.write(data.subarray(0, sent), () => setTimeout(() => req.destroy(), 300));
+    });
+    const id = idFromUrl(location.href);
+    let offset = 0;
+    for (let i = 0; i < 50 && offset === 0; i++) {
+      await new Promise((r) => setTimeout(r, 100));
+      const head = await fetch(location, { method: "HEAD", headers: { cookie: ctx.users.contributor.cookie, "Tus-Resumable": "1.0.0" } });
+      offset = Number(head.headers.get("upload-offset"));
+    }
+    expect(offset).toBeGreaterThan(0);
+    expect(offset).toBeLessThanOrEqual(sent);
+    const rest = await tusUpload(app.base, ctx.users.contributor.cookie, data, { datasetId: ds.datasetId, uploadUrl: location.href });
+    expect(rest.ok).toBe(true);
+    const [row] = await db.select().from(uploads).where(eq(uploads.id, id));
+    expect(row).toMatchObject({ sizeBytes: data.length, sha256: sha256(data) });
   });
 
   test("a visitor is refused with 401 and an outsider with 403, on create and on continuing someone's upload", async () => {

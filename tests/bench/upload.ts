@@ -4,7 +4,7 @@
  * them, every request authenticated, SHA-256 computed while the bytes land, the upload recorded in PostgreSQL) and as
  * one plain streamed HTTP PUT to a bench-only route on the same server that also writes the file and computes its
  * SHA-256 (so both sides do the same disk and hashing work). The client runs in its own process, as a browser would.
- * Each is run twice (PUT, tus, tus, PUT) after flushing dirty pages, and the faster run of each counts. MB = 10^6 bytes.
+ * Each is run three times (PUT, tus, tus, PUT, PUT, tus) after flushing dirty pages, and the fastest run of each counts. MB = 10^6 bytes.
  * BENCH_UPLOAD_STORAGE puts the stored files elsewhere (e.g. /dev/shm, to take the disk out of the comparison);
  * BENCH_UPLOAD_CHUNK changes the tus part size. Figures: tus_mb_per_s, put_mb_per_s, ratio = tus / put (goal ≥ 0.8).
  */
@@ -21,7 +21,7 @@ import { mooringCsv } from "../../shared/demo/generate";
 import type { BenchContext } from "./run";
 
 const CHUNK = Number(process.env.BENCH_UPLOAD_CHUNK ?? 50 * 1024 * 1024);
-const ROUNDS = 2;
+const ROUNDS = 3;
 
 /** The demo mooring at 1 Hz for 39 days: ~250 MB, the size of a month of a busier logger. Generated once. */
 async function fileOf250Mb(ctx: BenchContext): Promise<string> {
