@@ -2,18 +2,17 @@ import { existsSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import express, { type Express, type RequestHandler } from "express";
 import helmet from "helmet";
-import { pinoHttp } from "pino-http";
 import { toNodeHandler } from "better-auth/node";
 import { sql } from "drizzle-orm";
 import { auth } from "./auth";
 import { db } from "./db/client";
 import { env } from "./env";
-import { logger } from "./lib/logger";
 import { errorHandler, notFoundHandler } from "./middleware/error-handler";
 import { checkOrigin } from "./middleware/check-origin";
 import { authRateLimit, SENSITIVE_AUTH_PATHS } from "./middleware/rate-limit";
 import { databaseReachable } from "./middleware/database-reachable";
 import { requestId } from "./middleware/request-id";
+import { requestLog } from "./middleware/request-log";
 import { adminApi, meApi } from "./routes/admin";
 import { catalogueApi, datasetsApi, reviewApi } from "./routes/datasets";
 import { deploymentsApi, platformsApi } from "./routes/platforms";
@@ -50,17 +49,7 @@ export function createApp(options: AppOptions = {}): Express {
   app.set("trust proxy", process.env.TRUST_PROXY === "1" ? 1 : false);
 
   app.use(requestId);
-  app.use(
-    pinoHttp({
-      logger,
-      genReqId: (req) => (req as express.Request).id,
-      autoLogging: { ignore: (req) => req.url === "/api/health" },
-      serializers: {
-        req: (r: { id: string; method: string; url: string }) => ({ id: r.id, method: r.method, url: r.url.split("?")[0] }),
-        res: (r: { statusCode: number }) => ({ statusCode: r.statusCode }),
-      },
-    }),
-  );
+  app.use(requestLog);
   const https = env.PUBLIC_URL.startsWith("https://");
   app.use(
     helmet({

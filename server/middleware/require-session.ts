@@ -13,6 +13,8 @@ export interface SessionUser {
 
 async function loadUser(req: Parameters<RequestHandler>[0]): Promise<SessionUser | null> {
   if (req.user !== undefined) return req.user;
+  // No cookie, no session: visitors (most catalogue and download traffic) skip the session lookup.
+  if (!req.headers.cookie) return (req.user = null);
   const session = await auth.api.getSession({ headers: fromNodeHeaders(req.headers) });
   const u = session?.user;
   req.user = u && !u.banned ? { id: u.id, name: u.name, email: u.email, emailVerified: u.emailVerified, isAdmin: u.role === "admin" } : null;

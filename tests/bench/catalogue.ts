@@ -1,16 +1,16 @@
 /**
  * Bench part "catalogue" (issue 8): the public catalogue and dataset landing pages under 50 concurrent clients
- * (autocannon), over HTTP against the real app and PostgreSQL. 300 invented released datasets (Merrow Shelf
+ * (autocannon, in a process of its own as real clients are), over HTTP against the real app and PostgreSQL. 300 invented released datasets (Merrow Shelf
  * scenario) are inserted into a fresh database; the clients cycle through plain, text, area, variable and
  * sorted searches and landing pages of random datasets. Figures: clients, rps, p95_ms, p99_ms (goal p95 < 50),
  * with p95 taken from every response's own latency; health_rps and health_p95_ms give the same load on the health
  * check just before, the floor the machine allows at that moment.
  */
-import { execFileSync } from "node:child_process";
+import { execFileSync, spawn } from "node:child_process";
+import { once } from "node:events";
 import { randomUUID } from "node:crypto";
 import type { AddressInfo } from "node:net";
 import { join, resolve } from "node:path";
-import autocannon from "autocannon";
 import pg from "pg";
 import { seededRandom } from "../../shared/demo/generate";
 import { RESULT_MARK, runChild } from "./download";
@@ -107,24 +107,20 @@ async function child() {
     const r = await fetch(base + p);
     if (!r.ok) throw new Error(`${p}: ${r.status} ${await r.text()}`);
   }
-  /** 50 clients for `seconds` over `list`; every response's latency. */
-  const load = (list: string[], seconds: number) => {
-    const latencies: number[] = [];
-    let errors = 0;
-    return new Promise<{ result: autocannon.Result; latencies: number[]; errors: number }>((resolveRun, reject) => {
-      const instance = autocannon(
-        { url: base, connections: CLIENTS, duration: seconds, requests: list.map((path) => ({ method: "GET" as const, path })) },
-        (err, res) => (err ? reject(err) : resolveRun({ result: res, latencies, errors })),
-      );
-      instance.on("response", (_client, status, _bytes, ms) => {
-        if (status !== 200) errors++;
-        latencies.push(ms);
-      });
-    });
+  /** 50 clients for `seconds` over `list`, in a process of their own (tests/bench/load-client.ts). */
+  const load = async (list: string[], seconds: number) => {
+    const child = spawn(process.execPath, ["--import", "tsx", resolve("tests/bench/load-client.ts"), JSON.stringify({ base, paths: list, connections: CLIENTS, seconds })], { stdio: ["ignore", "pipe", "inherit"] });
+    let out = "";
+    child.stdout.on("data", (b) => (out += b));
+    const [code] = (await once(child, "exit")) as [number | null];
+    if (code !== 0) throw new Error(`load client exited with ${code}`);
+    const r = JSON.parse(out.trim().split("\n").pop()!) as { rps: number; requests: number; non_2xx: number; errors: number; latencies: number[] };
+    return { rps: r.rps, latencies: r.latencies, errors: r.non_2xx + r.errors };
   };
   // The same clients on the health check first: the floor this machine gives any request right now.
   const floor = await load(["/api/health"], 5);
-  const { result, latencies, errors } = await load(paths, DURATION_S);
+  const result = await load(paths, DURATION_S);
+  const { latencies, errors } = result;
   // Let requests still in flight finish before the pool goes.
   server.closeAllConnections();
   await new Promise((r) => server.close(r));
@@ -132,13 +128,13 @@ async function child() {
   await pool.end();
   const figures = {
     clients: CLIENTS,
-    rps: Math.round(result.requests.average),
+    rps: Math.round(result.rps),
     p50_ms: Number(pct(latencies, 50).toFixed(1)),
     p95_ms: Number(pct(latencies, 95).toFixed(1)),
     p99_ms: Number(pct(latencies, 99).toFixed(1)),
     requests: latencies.length,
     non_2xx: errors,
-    health_rps: Math.round(floor.result.requests.average),
+    health_rps: Math.round(floor.rps),
     health_p95_ms: Number(pct(floor.latencies, 95).toFixed(1)),
   };
   log(JSON.stringify(figures));

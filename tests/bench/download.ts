@@ -24,7 +24,9 @@ export const RESULT_MARK = "BENCH_RESULT ";
 /** Runs the measurement in a child process and returns its figures (last stdout line). */
 export function runChild(file: string, ctx: BenchContext, env: Record<string, string> = {}): Promise<Record<string, number | string>> {
   return new Promise((resolvePromise, reject) => {
-    const child = spawn(process.execPath, ["--import", "tsx", file, "--child"], { env: { ...process.env, BENCH_DIR: ctx.dir, ...env }, stdio: ["ignore", "pipe", "inherit"] });
+    // BENCH_PROFILE=DIR writes a CPU profile of the child (the server side) into DIR.
+    const profile = process.env.BENCH_PROFILE ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_PROFILE}`] : [];
+    const child = spawn(process.execPath, [...profile, "--import", "tsx", file, "--child"], { env: { ...process.env, BENCH_DIR: ctx.dir, ...env }, stdio: ["ignore", "pipe", "inherit"] });
     let out = "";
     child.stdout.on("data", (b) => (out += b));
     child.on("exit", (code) => {
