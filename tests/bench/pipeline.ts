@@ -108,7 +108,9 @@ export async function run(ctx: BenchContext) {
     "0".repeat(64),
   ]);
 
-  const worker = spawn(process.execPath, ["--import", "tsx", "server/worker.ts"], {
+  // BENCH_PROFILE=DIR writes a CPU profile of the worker into DIR.
+  const profile = process.env.BENCH_PROFILE ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_PROFILE}`] : [];
+  const worker = spawn(process.execPath, [...profile, "--import", "tsx", "server/worker.ts"], {
     env: { ...process.env, NODE_ENV: "production", LOG_LEVEL: "info" },
     stdio: ["ignore", "pipe", "inherit"],
   });
