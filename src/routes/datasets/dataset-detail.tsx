@@ -127,7 +127,7 @@ export function Component() {
               <dd>{d.projectName}</dd>
               <dt className="text-muted">Platform</dt>
               <dd>
-                {d.platformName ?? "Drifter fleet"}
+                {d.platformName ?? "None (no deployment chosen)"}
                 {d.platformKind ? (
                   <div className="text-sm text-muted">
                     <KindLabel kind={d.platformKind} />

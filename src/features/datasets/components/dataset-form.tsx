@@ -45,8 +45,8 @@ export function CreateDatasetForm({
       <TextField className="sm:col-span-2" label="Dataset title" hint="Say what, where and when: “Surface wind and current, Mooring A, spring 2026”." error={formState.errors.title?.message} {...register("title")} />
       <SelectField
         label="Deployment"
-        hint="The period at sea this series comes from. Choose none for a drifter-fleet dataset."
-        options={[{ value: "", label: "None (drifter fleet)" }, ...deploymentOptions]}
+        hint="The period at sea this series comes from. For a drifter fleet, add the fleet as one drifter platform with a deployment and choose it here, so its column map is saved for the next file."
+        options={[{ value: "", label: "None (one-off file; its column map is not saved)" }, ...deploymentOptions]}
         error={formState.errors.deploymentId?.message}
         {...register("deploymentId")}
       />

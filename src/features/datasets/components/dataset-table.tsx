@@ -36,7 +36,7 @@ export function DatasetTable({ items }: { items: Dataset[] }) {
                     </div>
                   </>
                 ) : (
-                  <span className="text-muted">Drifter fleet</span>
+                  <span className="text-muted">No deployment</span>
                 )}
               </Td>
               <Td numeric>{d.versions.length}</Td>
