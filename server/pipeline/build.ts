@@ -218,7 +218,7 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
       onBytes: (b) => (bytesDone = b),
     });
     const { canonicalizer, chunks } = stream;
-    closeStream = () => ("close" in stream ? stream.close() : void chunks.return(undefined));
+    closeStream = () => stream.close();
     const first = await chunks.next();
     if (first.done) throw new InputError(`${L.uploadName} has no data rows after the header`, map.data.headerRow + map.data.skipRows + 1);
     if (settings.timing.expectedIntervalS === null) {

@@ -23,6 +23,8 @@ export class InputError extends Error {
 export interface CanonicalStream {
   canonicalizer: Canonicalizer;
   chunks: AsyncGenerator<{ chunk: RecordChunk; warnings: ParseWarning[] }>;
+  /** Stops reading and releases the file, whether or not chunks were taken. */
+  close(): void;
 }
 
 export interface StreamOptions {
@@ -102,40 +104,49 @@ export async function openCanonicalStream(path: string, map: ColumnMap, opts: St
     return out;
   };
 
-  let header: string[] | null = null;
-  if (map.headerRow > 0) {
-    const head = await takeLines(map.headerRow + map.skipRows);
-    if (head.length < map.headerRow) throw new InputError(`${label}: the file ends before its header row (line ${map.headerRow})`, map.headerRow);
-    header = head[map.headerRow - 1]!;
-    line = map.headerRow + map.skipRows + 1;
-  } else if (map.skipRows > 0) {
-    await takeLines(map.skipRows);
-    line = map.skipRows + 1;
+  try {
+    return await openStream();
+  } catch (e) {
+    stream.destroy();
+    throw e;
   }
-  const bound = canonicalizer.bindHeader(header, map.headerRow);
-  if (!bound.ok) throw new InputError(`${label}: ${bound.error}`, map.headerRow || undefined);
 
-  async function* chunks() {
-    try {
-      if (pending.length) {
-        const rows = pending;
-        pending = [];
-        const r = canonicalizer.convert(rows, line);
-        line += rows.length;
-        yield r;
-      }
-      for (;;) {
-        const piece = await nextPiece();
-        if (piece === null) return;
-        const rows = parse(piece);
-        if (piece.endsWith("\n") && rows.length && rows[rows.length - 1]!.length === 1 && rows[rows.length - 1]![0] === "") rows.pop();
-        const r = canonicalizer.convert(rows, line);
-        line += rows.length;
-        yield r;
-      }
-    } finally {
-      stream.destroy();
+  async function openStream(): Promise<CanonicalStream> {
+    let header: string[] | null = null;
+    if (map.headerRow > 0) {
+      const head = await takeLines(map.headerRow + map.skipRows);
+      if (head.length < map.headerRow) throw new InputError(`${label}: the file ends before its header row (line ${map.headerRow})`, map.headerRow);
+      header = head[map.headerRow - 1]!;
+      line = map.headerRow + map.skipRows + 1;
+    } else if (map.skipRows > 0) {
+      await takeLines(map.skipRows);
+      line = map.skipRows + 1;
     }
+    const bound = canonicalizer.bindHeader(header, map.headerRow);
+    if (!bound.ok) throw new InputError(`${label}: ${bound.error}`, map.headerRow || undefined);
+
+    async function* chunks() {
+      try {
+        if (pending.length) {
+          const rows = pending;
+          pending = [];
+          const r = canonicalizer.convert(rows, line);
+          line += rows.length;
+          yield r;
+        }
+        for (;;) {
+          const piece = await nextPiece();
+          if (piece === null) return;
+          const rows = parse(piece);
+          if (piece.endsWith("\n") && rows.length && rows[rows.length - 1]!.length === 1 && rows[rows.length - 1]![0] === "") rows.pop();
+          const r = canonicalizer.convert(rows, line);
+          line += rows.length;
+          yield r;
+        }
+      } finally {
+        stream.destroy();
+      }
+    }
+    return { canonicalizer, chunks: chunks(), close: () => void stream.destroy() };
   }
-  return { canonicalizer, chunks: chunks() };
 }

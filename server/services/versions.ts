@@ -1,5 +1,6 @@
 import { sql } from "drizzle-orm";
 import { CAUTION } from "@shared/compute/diagnostics";
+import type { ColumnMap } from "@shared/schemas/column-map";
 import { resolveQcSettings } from "@shared/schemas/qc-settings";
 import {
   builtVersionStates,
@@ -18,7 +19,9 @@ import { db, pool } from "../db/client";
 import { enqueueBuild } from "../jobs/build-version.job";
 import { AppError, conflict, notFound, unauthenticated } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
+import { pathForKey } from "../lib/file-store";
 import { finishUnbuilt } from "../pipeline/build";
+import { InputError, openCanonicalStream } from "../pipeline/read-csv";
 import { assertProjectAccess, getProjectRole } from "./access";
 import { writeAudit } from "./audit";
 
@@ -50,8 +53,9 @@ export async function createVersion(user: SessionUser, datasetId: string, body: 
     throw notFound("Dataset");
   }
   await assertProjectAccess(user, d.project_id, "contribute");
-  const up = await pool.query(`select id from uploads where id = $1 and dataset_id = $2`, [input.uploadId, datasetId]);
+  const up = await pool.query<{ storage_key: string; original_name: string }>(`select storage_key, original_name from uploads where id = $1 and dataset_id = $2`, [input.uploadId, datasetId]);
   if (!up.rowCount) throw new AppError("not_found", "Upload not found in this dataset; upload the file to this dataset first", 404, { uploadId: ["No such upload in this dataset"] });
+  await assertMapFitsHeader(up.rows[0]!.storage_key, up.rows[0]!.original_name, input.columnMap);
   if (input.qcSettings) {
     const r = resolveQcSettings(deepMerge(d.dep_settings ?? {}, input.qcSettings) as never);
     if (!r.success) {
@@ -89,6 +93,20 @@ export async function createVersion(user: SessionUser, datasetId: string, body: 
   });
   await queueBuild(created.id);
   return { id: created.id, number: created.number, state: created.state };
+}
+
+/**
+ * Reads the upload's header the way the build will and refuses a map that names a column the file does not have,
+ * before a version number is taken (the build would fail on it at once).
+ */
+async function assertMapFitsHeader(storageKey: string, originalName: string, map: ColumnMap) {
+  try {
+    const stream = await openCanonicalStream(pathForKey(storageKey), map, { label: originalName, chunkBytes: 64 << 10 });
+    stream.close();
+  } catch (e) {
+    if (e instanceof InputError) throw new AppError("validation_failed", e.message, 400, { columnMap: [e.message] });
+    throw e;
+  }
 }
 
 async function queueBuild(versionId: string) {

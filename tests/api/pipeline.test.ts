@@ -144,15 +144,20 @@ describe("POST /api/datasets/:id/versions", () => {
     expect(rows.find((r) => r.t === first2)!.wind_speed_qc).not.toBe(4);
   });
 
-  test("a failed build names the problem and leaves no records behind", async () => {
+  test("a column map naming a column the file lacks is refused before any version is made", async () => {
     const { datasetId } = await makeMooringDataset(roles.projectId);
-    const text = windText(day, 50, 60).replace("wspd", "wind_ms");
-    const v = await build(datasetId, text, "replace");
-    expect(v.state).toBe("failed");
-    expect(v.detail.progress!.runState).toBe("failed");
-    expect(v.detail.progress!.error!.message).toMatch(/Column "wspd".*not in the header on line 1/);
-    expect(v.detail.progress!.error!.line).toBe(1);
+    const { contributor } = roles.users;
+    const uploadId = await storeUpload(datasetId, contributor.id, windText(day, 50, 60).replace("wspd", "wind_ms"));
+    const res = await as(contributor.cookie).post(`/api/datasets/${datasetId}/versions`).send({ uploadId, columnMap: mooringMap(), mode: "replace" });
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toMatch(/Column "wspd".*not in the header on line 1/);
+    expect(res.body.error.details.columnMap[0]).toMatch(/Column "wspd"/);
+    const versions = await pool.query(`select count(*)::int as n from versions where dataset_id = $1`, [datasetId]);
+    expect(versions.rows[0]).toEqual({ n: 0 });
     expect(await countRows(datasetId)).toBe(0);
+  });
+
+  test("a failed build names the problem and leaves no records behind", async () => {
     // Every line without a readable time: failed, with the first problem's line and column.
     const { datasetId: d2 } = await makeMooringDataset(roles.projectId);
     const v2 = await build(d2, "time,wspd,wdir,gust,airt,baro,rh,sst,cur_e,cur_n\nyesterday,1,2,3,4,1000,6,7,8,9\n", "replace");
