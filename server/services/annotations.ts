@@ -218,31 +218,38 @@ async function rederive(tx: pg.ClientBase, datasetId: string, N: number, setting
       settings,
       ctx,
     );
+    // One UPDATE per batch sets every derived flag that changed: a row is rewritten once, not once per variable.
+    const changedCols: { name: DerivedVariable; flags: (number | null)[] }[] = [];
+    const rowChanged = new Uint8Array(n);
     for (const [name, nf] of Object.entries(out.flags) as [DerivedVariable, Uint8Array][]) {
       const i = dIdx(name);
-      const plats: string[] = [];
-      const times: string[] = [];
-      const fl: number[] = [];
+      const next: (number | null)[] = new Array(n).fill(null);
       const counts = new Map<string, number>();
       (rows as unknown[][]).forEach((r, k) => {
         if (r[i] === null) return; // not part of this build
         const old = r[i + 1] as number | null;
         if (old === nf[k]) return;
-        plats.push(r[0] as string);
-        times.push(r[1] as string);
-        fl.push(nf[k]!);
+        next[k] = nf[k]!;
+        rowChanged[k] = 1;
         const key = `${old}|${nf[k]}`;
         counts.set(key, (counts.get(key) ?? 0) + 1);
       });
-      if (!plats.length) continue;
+      if (!counts.size) continue;
       for (const [key, c] of counts) {
         const [a, b] = key.split("|");
         noteDelta(name, a === "null" ? null : Number(a), Number(b), c);
       }
+      changedCols.push({ name, flags: next });
+    }
+    if (changedCols.length) {
+      const pick = [...rowChanged.keys()].filter((k) => rowChanged[k]);
+      const sets = changedCols.map((c, j) => `${q(`${c.name}_qc`)} = coalesce(x.f${j}, r.${q(`${c.name}_qc`)})`).join(", ");
+      const arrays = changedCols.map((_, j) => `$${5 + j}::smallint[]`).join(", ");
+      const names = changedCols.map((_, j) => `f${j}`).join(", ");
       await tx.query(
-        `update records r set ${q(`${name}_qc`)} = x.f from unnest($3::text[], $4::timestamptz[], $5::smallint[]) as x(p, t, f)
+        `update records r set ${sets} from unnest($3::text[], $4::timestamptz[], ${arrays}) as x(p, t, ${names})
           where r.dataset_id = $1 and r.valid_from = $2 and r.platform = x.p and r.time = x.t`,
-        [datasetId, N, plats, times, fl],
+        [datasetId, N, pick.map((k) => (rows[k] as unknown[])[0]), pick.map((k) => (rows[k] as unknown[])[1]), ...changedCols.map((c) => pick.map((k) => c.flags[k]))],
       );
     }
     if (n < BATCH) break;
