@@ -1,12 +1,21 @@
 #!/usr/bin/env bash
 # npm test: every suite Tauline has, on a machine that may have nothing but Node.js.
 # Installs PostgreSQL and Chromium from Debian's packages when missing, runs its own PostgreSQL
-# cluster (.pg-test, port 55433), runs the unit and API tests (vitest) and the browser tests
+# cluster (.pg-test, port 55433 or the next free one), runs the unit and API tests (vitest) and the browser tests
 # (Playwright driving Debian's Chromium), stops what it started, and ends with one line of totals.
 set -uo pipefail
 cd "$(dirname "$0")/.."
 export NO_COLOR=1
-export TEST_PG_DIR=${TEST_PG_DIR:-.pg-test} TEST_PG_PORT=${TEST_PG_PORT:-55433}
+export TEST_PG_DIR=${TEST_PG_DIR:-.pg-test}
+# A cluster of this folder left running by an earlier run (e.g. a direct `npx vitest`) is stopped, and
+# when no port is given the first free one from 55433 up is taken, so another PostgreSQL on this
+# machine cannot make the run fail.
+bash scripts/pg.sh stop "$TEST_PG_DIR" >/dev/null 2>&1 || true
+if [ -z "${TEST_PG_PORT:-}" ]; then
+  TEST_PG_PORT=55433
+  while (exec 3<>"/dev/tcp/127.0.0.1/$TEST_PG_PORT") 2>/dev/null; do TEST_PG_PORT=$((TEST_PG_PORT + 1)); done
+fi
+export TEST_PG_PORT
 artifacts=tests/artifacts
 rm -rf "$artifacts"; mkdir -p "$artifacts"
 
