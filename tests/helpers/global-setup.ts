@@ -10,7 +10,10 @@ export default async function setup(project: TestProject) {
   const env = project.config.env as Record<string, string>;
   const url = new URL(env.DATABASE_URL!);
   const dbName = url.pathname.slice(1);
-  execFileSync("bash", ["scripts/pg.sh", "start", process.env.TEST_PG_DIR ?? ".pg-test", url.port, "postgres"], { stdio: "inherit" });
+  const pgDir = process.env.TEST_PG_DIR ?? ".pg-test";
+  // A cluster this setup starts is stopped again at the end, so a direct `npx vitest` leaves nothing running.
+  const wasRunning = await reachable(`postgres://postgres@127.0.0.1:${url.port}/postgres`);
+  execFileSync("bash", ["scripts/pg.sh", "start", pgDir, url.port, "postgres"], { stdio: "inherit" });
   const adminUrl = `postgres://postgres@127.0.0.1:${url.port}/postgres`;
   const admin = new pg.Client({ connectionString: adminUrl });
   await admin.connect();
@@ -35,5 +38,17 @@ export default async function setup(project: TestProject) {
     await c.connect();
     await c.query(`drop database if exists ${dbName} with (force)`);
     await c.end();
+    if (!wasRunning) execFileSync("bash", ["scripts/pg.sh", "stop", pgDir], { stdio: "inherit" });
   };
+}
+
+async function reachable(connectionString: string): Promise<boolean> {
+  const c = new pg.Client({ connectionString, connectionTimeoutMillis: 2000 });
+  try {
+    await c.connect();
+    await c.end();
+    return true;
+  } catch {
+    return false;
+  }
 }
