@@ -10,7 +10,7 @@ import { addMembership, as, createTestUser, makeProjectWithRoles, testApp, type 
 import { makeDataset, makeVersion } from "../helpers/curation";
 import { buildMooringVersion } from "../helpers/explore";
 import { pool } from "../../server/db/client";
-import { makeBuildVersion, makeMooringDataset, mooringMap, storeUpload } from "../helpers/pipeline";
+import { makeBuildVersion, makeMooringDataset, mooringMap, mooringText, storeUpload } from "../helpers/pipeline";
 import { storeTestUpload } from "../helpers/uploads";
 
 /**
@@ -159,7 +159,7 @@ const matrix: Record<string, Case> = {
   "POST /api/datasets/:id/versions": {
     call: async (i) => {
       const { datasetId } = await makeMooringDataset(i.projectId);
-      const uploadId = await storeUpload(datasetId, i.users.contributor.id, "time,wspd\n2026-10-01T00:00:00Z,5\n");
+      const uploadId = await storeUpload(datasetId, i.users.contributor.id, mooringText({ durationS: 600, intervalS: 60 }));
       return { url: `/api/datasets/${datasetId}/versions`, body: { uploadId, columnMap: mooringMap(), mode: "replace" } };
     },
     expect: createMembers,

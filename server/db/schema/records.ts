@@ -39,12 +39,15 @@ import { user } from "./auth";
 import { versions } from "./datasets";
 import { deployments, projects } from "./projects";
 
+/**
+ * Every value column first, then every flag column: PostgreSQL aligns a double to 8 bytes, so a smallint flag
+ * between two doubles wasted 6 bytes of padding per variable (about a third of a record; migration 0013).
+ */
 const variableColumns = () => {
   const cols: Record<string, ReturnType<typeof doublePrecision> | ReturnType<typeof smallint>> = {};
-  for (const v of [...measuredVariables, ...derivedVariables]) {
-    cols[v] = doublePrecision(v);
-    cols[`${v}_qc`] = smallint(`${v}_qc`);
-  }
+  const all = [...measuredVariables, ...derivedVariables];
+  for (const v of all) cols[v] = doublePrecision(v);
+  for (const v of all) cols[`${v}_qc`] = smallint(`${v}_qc`);
   return cols;
 };
 
