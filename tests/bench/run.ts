@@ -2,12 +2,13 @@
  * Tauline's bench runner. `npm run bench` runs every part; `npm run bench -- --only engine` (or a comma list) runs
  * some. Parts are modules exporting `run(ctx)` that resolve to a plain object of figures. Progress goes to stderr;
  * the LAST line on stdout is one JSON object keyed by part name, also written to .bench/results.json.
- * To add a part: write tests/bench/<part>.ts and add a line to `parts` below.
+ * To add a part: write tests/bench/<part>.ts and add a line to `parts` below. The parts' PostgreSQL (.bench/pg) is stopped
+ * at the end unless BENCH_KEEP_PG=1.
  */
 import { createWriteStream, existsSync, mkdirSync, readFileSync, renameSync, statSync, writeFileSync } from "node:fs";
 import { once } from "node:events";
 import { join, resolve } from "node:path";
-import { spawn } from "node:child_process";
+import { execFileSync, spawn } from "node:child_process";
 import { fileURLToPath } from "node:url";
 import { demoMooringDefaults, mooringCsv, type MooringOptions } from "../../shared/demo/generate";
 
@@ -95,6 +96,9 @@ async function main() {
   // Keep figures of parts not run this time, so --only refreshes one part.
   writeFileSync(file, JSON.stringify({ ...previous, ...results }, null, 2) + "\n");
   process.stdout.write(JSON.stringify(results) + "\n");
+  // The parts' private PostgreSQL (.bench/pg) is stopped at the end, so a bench leaves nothing running;
+  // BENCH_KEEP_PG=1 keeps it for looking at the data afterwards.
+  if (process.env.BENCH_KEEP_PG !== "1") execFileSync("bash", ["scripts/pg.sh", "stop", join(dir, "pg")], { stdio: "inherit" });
 }
 
 await main();
