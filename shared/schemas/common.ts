@@ -28,3 +28,29 @@ export const optionalNumber = <T extends z.ZodType<number>>(inner: T) =>
     .union([inner, z.nan(), z.null()])
     .optional()
     .transform((v) => (v === null || v === undefined || Number.isNaN(v) ? undefined : (v as z.output<T>)));
+
+/*
+ * For edits (PATCH): a field left out stays as it is; a blank one ("", null, or NaN from an empty number input)
+ * clears the stored value (null).
+ */
+
+/** Editable optional text: absent = unchanged, blank or null = cleared. */
+export const clearableText = (max: number) =>
+  z
+    .union([z.null(), z.string().trim().max(max, `At most ${max} characters`)])
+    .optional()
+    .transform((v) => (v === undefined ? undefined : v === null || v === "" ? null : v));
+
+/** Editable optional value checked by `inner`: absent = unchanged, "" or null = cleared. */
+export const clearable = <T extends z.ZodType<string>>(inner: T) =>
+  z
+    .union([z.literal(""), z.null(), inner])
+    .optional()
+    .transform((v) => (v === undefined ? undefined : v === "" || v === null ? null : (v as z.output<T>)));
+
+/** Editable optional number: absent = unchanged, null or NaN = cleared. */
+export const clearableNumber = <T extends z.ZodType<number>>(inner: T) =>
+  z
+    .union([inner, z.nan(), z.null()])
+    .optional()
+    .transform((v) => (v === undefined ? undefined : v === null || Number.isNaN(v) ? null : (v as z.output<T>)));

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { blankable, idSchema, optionalText } from "./common";
+import { blankable, clearableText, idSchema, optionalText } from "./common";
 import { platformKinds } from "./platforms";
 
 export const versionStates = [
@@ -27,9 +27,10 @@ export const createDatasetInputSchema = z.object({
   licence: z.enum(licences, { message: "Choose a listed licence" }).default("CC-BY-4.0"),
 });
 export type CreateDatasetInput = z.input<typeof createDatasetInputSchema>;
+/** Edits: fields left out stay; a blank description clears it. */
 export const updateDatasetInputSchema = z.object({
   title: createDatasetInputSchema.shape.title.optional(),
-  description: optionalText(8000),
+  description: clearableText(8000),
   licence: z.enum(licences, { message: "Choose a listed licence" }).optional(),
 });
 export type UpdateDatasetInput = z.infer<typeof updateDatasetInputSchema>;

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { idSchema, optionalText } from "./common";
+import { clearableText, idSchema, optionalText } from "./common";
 
 export const projectRoles = ["contributor", "curator"] as const;
 export type ProjectRole = (typeof projectRoles)[number];
@@ -15,7 +15,12 @@ export const createProjectInputSchema = z.object({
   description: optionalText(4000),
 });
 export type CreateProjectInput = z.infer<typeof createProjectInputSchema>;
-export const updateProjectInputSchema = createProjectInputSchema.partial();
+/** Edits: fields left out stay; a blank description clears it. */
+export const updateProjectInputSchema = z.object({
+  name: createProjectInputSchema.shape.name.optional(),
+  slug: createProjectInputSchema.shape.slug.optional(),
+  description: clearableText(4000),
+});
 export type UpdateProjectInput = z.infer<typeof updateProjectInputSchema>;
 
 export const projectSchema = z.object({

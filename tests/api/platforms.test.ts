@@ -100,6 +100,50 @@ describe("POST /api/platforms/:id/deployments", () => {
   });
 });
 
+describe("PATCH: fields left out stay, blank fields clear", () => {
+  test("a deployment's optional fields are cleared by null or blank, and kept when left out", async () => {
+    const c = as(ctx.users.contributor.cookie);
+    const p = await c.post(`/api/projects/${ctx.projectId}/platforms`).send({ name: "Edited mooring", kind: "mooring", wmoNumber: "4612399", description: "Inner shelf" });
+    const d = await c.post(`/api/platforms/${p.body.id}/deployments`).send({
+      name: "EM-1",
+      startTime: "2026-03-01T00:00:00Z",
+      endTime: "2026-06-01T00:00:00Z",
+      latitude: 41.5,
+      longitude: -124.9,
+      waterDepthM: 200,
+      anemometerHeightM: 4,
+      notes: "Recovered early",
+    });
+    expect(d.status).toBe(201);
+    const cleared = await c.patch(`/api/deployments/${d.body.id}`).send({ endTime: "", latitude: null, longitude: null, waterDepthM: null, notes: "" });
+    expect(cleared.status).toBe(200);
+    expect(cleared.body).toMatchObject({ name: "EM-1", endTime: null, latitude: null, longitude: null, waterDepthM: null, notes: null, anemometerHeightM: 4 });
+    const kept = await c.patch(`/api/deployments/${d.body.id}`).send({ name: "EM-1b" });
+    expect(kept.body).toMatchObject({ name: "EM-1b", startTime: "2026-03-01T00:00:00.000Z", anemometerHeightM: 4, endTime: null });
+    // Clearing one coordinate alone would leave half a position: refused, naming the other.
+    const half = await c.patch(`/api/deployments/${d.body.id}`).send({ latitude: 41.6 });
+    expect(half.status).toBe(400);
+    expect(half.body.error.details.longitude).toEqual(["Give both latitude and longitude, or neither"]);
+    // The start cannot be cleared.
+    expect((await c.patch(`/api/deployments/${d.body.id}`).send({ startTime: "" })).status).toBe(400);
+
+    const platform = await c.patch(`/api/platforms/${p.body.id}`).send({ wmoNumber: "", description: null });
+    expect(platform.status).toBe(200);
+    expect(platform.body).toMatchObject({ name: "Edited mooring", wmoNumber: null, description: null });
+  });
+
+  test("a dataset's and a project's description are cleared by a blank value", async () => {
+    const ds = await as(ctx.users.contributor.cookie).post(`/api/projects/${ctx.projectId}/datasets`).send({ title: "Edited dataset", description: "Draft notes" });
+    expect(ds.status).toBe(201);
+    const edited = await as(ctx.users.contributor.cookie).patch(`/api/datasets/${ds.body.id}`).send({ description: "" });
+    expect(edited.status).toBe(200);
+    expect(edited.body).toMatchObject({ title: "Edited dataset", description: null });
+    const proj = await as(ctx.users.curator.cookie).patch(`/api/projects/${ctx.projectId}`).send({ description: null });
+    expect(proj.status).toBe(200);
+    expect(proj.body.description).toBeNull();
+  });
+});
+
 describe("constraints live in the database too", () => {
   test("raw SQL cannot store a latitude of 95, a zero anemometer height or an end before the start", async () => {
     const p = await as(ctx.users.contributor.cookie).post(`/api/projects/${ctx.projectId}/platforms`).send({ name: "Raw SQL buoy", kind: "mooring" });

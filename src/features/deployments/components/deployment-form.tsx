@@ -41,13 +41,15 @@ const numericFields = [
 ] as const;
 const fields = ["name", "startTime", "endTime", ...numericFields, "notes"] as const;
 
-/** Typed text → the API's input: numbers parsed (a comma is accepted as decimal mark), times to ISO 8601 with Z. */
+/**
+ * Typed text → the API's input: numbers parsed (a comma is accepted as decimal mark), times to ISO 8601 with Z.
+ * A blank field is sent blank ("" or null): not given for a new deployment, cleared when editing one.
+ */
 function toInput(v: DeploymentFormValues): Record<string, unknown> {
-  const end = utcInputToIso(v.endTime);
-  const out: Record<string, unknown> = { name: v.name, startTime: utcInputToIso(v.startTime), endTime: end === "" ? undefined : end, notes: v.notes };
+  const out: Record<string, unknown> = { name: v.name, startTime: utcInputToIso(v.startTime), endTime: utcInputToIso(v.endTime), notes: v.notes };
   for (const k of numericFields) {
     const t = v[k].trim().replace(",", ".").replace("−", "-");
-    out[k] = t === "" ? undefined : Number(t);
+    out[k] = t === "" ? null : Number(t);
   }
   return out;
 }
