@@ -8,7 +8,7 @@ import type { BuildError, BuildMode, QcRunReport } from "@shared/schemas/version
 import { derivedVocabulary, vocabulary, type DerivedVariable, type MeasuredVariable } from "@shared/vocabulary";
 import type { RecordChunk } from "@shared/compute/canonical";
 import type { DeploymentContext } from "@shared/compute/diagnostics";
-import { createEngine, type EngineBlock, type RunSummary } from "@shared/compute/engine";
+import { createEngine, flatLineCounts, type EngineBlock, type RunSummary } from "@shared/compute/engine";
 import { inferInterval } from "@shared/compute/timing";
 import { pool } from "../db/client";
 import { pathForKey } from "../lib/file-store";
@@ -54,7 +54,10 @@ function seamWindowS(s: QcSettings): number {
   let w = 10 * dt;
   for (const q of Object.values(s.variables)) {
     if (q?.rateOfChange) w = Math.max(w, q.rateOfChange.windowS + 2 * dt);
-    if (q?.flatLine) w = Math.max(w, (Math.max(q.flatLine.failCount, q.flatLine.suspectCount) + 2) * dt);
+    if (q?.flatLine) {
+      const k = flatLineCounts(q.flatLine, s.timing.expectedIntervalS);
+      w = Math.max(w, (Math.max(k.fail, k.suspect) + 2) * dt);
+    }
   }
   return w;
 }

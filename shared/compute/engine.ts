@@ -95,10 +95,111 @@ interface VarState {
   rocSq: number;
   ref: number;
   prev: number;
-  // flat line: last values, newest at flat[(flatPos-1) mod K]
-  flat: Float64Array;
-  flatPos: number;
-  flatSize: number;
+  // flat line: extremes of the last S and the last F values before the current one
+  flat: FlatWindows | null;
+}
+
+/**
+ * Records the flat-line test looks back over: the settings' counts, or as many records as the `…AfterS` durations
+ * hold at the expected interval when that is more (the handbook's counts are for hourly data). Also used to size
+ * the context a build reads before an append's first record.
+ */
+export function flatLineCounts(f: NonNullable<VariableQc["flatLine"]>, intervalS: number | null): { suspect: number; fail: number } {
+  const dt = intervalS !== null && intervalS > 0 ? intervalS : NaN;
+  const byTime = (s: number | null | undefined) => (s && dt === dt ? Math.ceil(s / dt - 1e-9) : 0);
+  return { suspect: Math.max(f.suspectCount, byTime(f.suspectAfterS)), fail: Math.max(f.failCount, byTime(f.failAfterS)) };
+}
+
+/**
+ * The extremes of the last `s` and of the last `f` values pushed (s ≤ f), for the flat-line test: one monotonic deque
+ * for the largest and one for the smallest over the longer window, O(1) amortised per value, so a window of hours at
+ * 1 Hz costs no more per record than one of three values. The shorter window's deque is a suffix of the longer
+ * one's (an element is kept while nothing later is at least as large), so a second cursor into the same deque
+ * gives its extreme. Positions are logical (ever-increasing); the ring index is the position masked to a power of 2.
+ */
+export class FlatWindows {
+  /** Largest of the windows, and largest of the negated values (the smallest, turned round). */
+  private readonly hi: WindowMax;
+  private readonly lo: WindowMax;
+  /** Values pushed so far. */
+  seen = 0;
+
+  constructor(
+    readonly s: number,
+    readonly f: number,
+  ) {
+    this.hi = new WindowMax(s, f);
+    this.lo = new WindowMax(s, f);
+  }
+
+  /** 4 when the last `f` values are all within `eps` of `x`, 3 when the last `s` are, else 1 (call once `seen ≥ s`). */
+  flag(x: number, eps: number): number {
+    if (this.seen >= this.f && this.hi.long() - x <= eps && x + this.lo.long() <= eps) return 4;
+    return this.hi.short() - x <= eps && x + this.lo.short() <= eps ? 3 : 1;
+  }
+
+  push(x: number): void {
+    const seq = this.seen++;
+    this.hi.push(seq, x);
+    this.lo.push(seq, -x);
+  }
+}
+
+/** Sliding maximum over the last `f` values and, by a second cursor into the same deque, over the last `s` ≤ `f`. */
+class WindowMax {
+  // Logical positions [head, end) in a ring that doubles as needed; mid = first position inside the shorter window.
+  private mask = 15;
+  private seq: Float64Array = new Float64Array(16);
+  private val: Float64Array = new Float64Array(16);
+  private head = 0;
+  private end = 0;
+  private mid = 0;
+
+  constructor(
+    private readonly s: number,
+    private readonly f: number,
+  ) {}
+
+  long(): number {
+    return this.val[this.head & this.mask]!;
+  }
+
+  short(): number {
+    return this.val[this.mid & this.mask]!;
+  }
+
+  push(seq: number, x: number): void {
+    let m = this.mask;
+    // Drop from the back what x outranks, append x, drop from the front what left the windows.
+    let end = this.end;
+    while (end > this.head && this.val[(end - 1) & m]! <= x) end--;
+    if (end - this.head > m) m = this.grow();
+    this.seq[end & m] = seq;
+    this.val[end & m] = x;
+    if (this.mid > end) this.mid = end;
+    this.end = end + 1;
+    const cutF = seq - this.f + 1;
+    const cutS = seq - this.s + 1;
+    while (this.seq[this.head & m]! < cutF) this.head++;
+    if (this.mid < this.head) this.mid = this.head;
+    while (this.seq[this.mid & m]! < cutS) this.mid++;
+  }
+
+  /** Doubles the ring, keeping logical positions where they are; returns the new mask. */
+  private grow(): number {
+    const m = this.mask;
+    const m2 = m * 2 + 1;
+    const seq = new Float64Array(m2 + 1);
+    const val = new Float64Array(m2 + 1);
+    for (let p = this.head; p < this.end; p++) {
+      seq[p & m2] = this.seq[p & m]!;
+      val[p & m2] = this.val[p & m]!;
+    }
+    this.seq = seq;
+    this.val = val;
+    this.mask = m2;
+    return m2;
+  }
 }
 
 interface PlatformState {
@@ -119,14 +220,13 @@ interface PlatformState {
   lastDir: number;
 }
 
-function newVarState(q: VariableQc | undefined): VarState {
-  const k = q?.flatLine ? Math.max(q.flatLine.failCount, q.flatLine.suspectCount) : 0;
+function newVarState(q: VariableQc | undefined, flatK: { suspect: number; fail: number } | null): VarState {
   const cap = 16;
   return {
     p1: NaN, p2: NaN, p1Idx: -1, nPrev: 0,
     rocT: new Float64Array(q?.rateOfChange ? cap : 0), rocV: new Float64Array(q?.rateOfChange ? cap : 0),
     rocHead: 0, rocSize: 0, rocSum: 0, rocSq: 0, ref: NaN, prev: NaN,
-    flat: new Float64Array(k), flatPos: 0, flatSize: 0,
+    flat: flatK ? new FlatWindows(Math.min(flatK.suspect, flatK.fail), Math.max(flatK.suspect, flatK.fail)) : null,
   };
 }
 
@@ -154,19 +254,22 @@ function windowPass(
   platforms: PlatformState[],
   k: number,
   q: VariableQc,
+  flatK: { suspect: number; fail: number } | null,
 ) {
   const spike = q.spike;
   const roc = q.rateOfChange;
   const flat = q.flatLine;
   const spS = spike ? spike.suspect : 0, spF = spike ? spike.fail : 0;
   const rocN2 = roc ? roc.n * roc.n : 0, rocW = roc ? roc.windowS : 0, rocMin = roc ? roc.minCount : 0;
-  const flEps = flat ? flat.epsilon : 0, flS = flat ? flat.suspectCount : 0, flF = flat ? flat.failCount : 0;
+  const flEps = flat ? flat.epsilon : 0;
+  // Settings may ask for fail before suspect: then the shorter window already fails.
+  const failFirst = flatK !== null && flatK.fail <= flatK.suspect;
   let lastP = -1;
   let vs: VarState | null = null;
   let p1 = 0, p2 = 0, p1Idx = 0, nPrev = 0;
   let rocT: Float64Array = new Float64Array(0), rocV: Float64Array = new Float64Array(0);
   let head = 0, size = 0, sum = 0, sq = 0, ref = 0, prev = 0, cap = 0;
-  let flatA: Float64Array = new Float64Array(0), flatPos = 0, flatSize = 0, K = 0;
+  let fw: FlatWindows | null = null;
   for (let i = from; i < n; i++) {
     if (!acc[i]) continue;
     const p = plat[i]!;
@@ -175,13 +278,12 @@ function windowPass(
       if (vs) {
         vs.p1 = p1; vs.p2 = p2; vs.p1Idx = p1Idx; vs.nPrev = nPrev;
         vs.rocT = rocT; vs.rocV = rocV; vs.rocHead = head; vs.rocSize = size; vs.rocSum = sum; vs.rocSq = sq; vs.ref = ref; vs.prev = prev;
-        vs.flatPos = flatPos; vs.flatSize = flatSize;
       }
       vs = platforms[p]!.vars[k]!;
       lastP = p;
       p1 = vs.p1; p2 = vs.p2; p1Idx = vs.p1Idx; nPrev = vs.nPrev;
       rocT = vs.rocT; rocV = vs.rocV; head = vs.rocHead; size = vs.rocSize; sum = vs.rocSum; sq = vs.rocSq; ref = vs.ref; prev = vs.prev; cap = rocT.length;
-      flatA = vs.flat; flatPos = vs.flatPos; flatSize = vs.flatSize; K = flatA.length;
+      fw = vs.flat;
     }
     const x = X[i]!;
     if (x !== x) {
@@ -244,26 +346,18 @@ function windowPass(
       sq += y * y;
       prev = x;
     }
-    if (flat) {
-      if (flatSize >= flS) {
-        let c = 0;
-        let pos = flatPos;
-        while (c < flatSize) {
-          pos = pos === 0 ? K - 1 : pos - 1;
-          if (Math.abs(flatA[pos]! - x) > flEps) break;
-          c++;
-        }
-        raiseAt(F, T, i, c >= flF ? FAIL : c >= flS ? SUSPECT : PASS, T_FLAT_LINE);
+    if (fw) {
+      // The last S (F) values before this one all within epsilon of it → suspect (fail).
+      if (fw.seen >= fw.s) {
+        const r = fw.flag(x, flEps);
+        raiseAt(F, T, i, failFirst && r !== PASS ? FAIL : r, T_FLAT_LINE);
       }
-      flatA[flatPos] = x;
-      flatPos = flatPos + 1 === K ? 0 : flatPos + 1;
-      if (flatSize < K) flatSize++;
+      fw.push(x);
     }
   }
   if (vs) {
     vs.p1 = p1; vs.p2 = p2; vs.p1Idx = p1Idx; vs.nPrev = nPrev;
         vs.rocT = rocT; vs.rocV = rocV; vs.rocHead = head; vs.rocSize = size; vs.rocSum = sum; vs.rocSq = sq; vs.ref = ref; vs.prev = prev;
-        vs.flatPos = flatPos; vs.flatSize = flatSize;
   }
 }
 
@@ -336,6 +430,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
   if (fillWindSD) setFilled("wind_speed", "wind_from_direction", "eastward_wind", "northward_wind");
   if (fillCurUV) setFilled("eastward_sea_water_velocity", "northward_sea_water_velocity", "sea_water_speed", "sea_water_velocity_to_direction");
   const qcs = vars.map((v) => settings.variables[v]);
+  const flatKs = qcs.map((q) => (q?.flatLine ? flatLineCounts(q.flatLine, settings.timing.expectedIntervalS) : null));
   const hasPos = present.has("latitude") && present.has("longitude");
   const drifter = ctx.platformKind === "drifter" && hasPos;
   const needsLookahead = drifter || qcs.some((q) => q?.spike);
@@ -378,7 +473,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
     let s = platforms[p];
     if (!s) {
       s = {
-        lastTime: NaN, pending: -1, vars: qcs.map((q) => newVarState(q)),
+        lastTime: NaN, pending: -1, vars: qcs.map((q, k) => newVarState(q, flatKs[k]!)),
         fixIdx: -1, fixLat: NaN, fixLon: NaN, fixTime: NaN, prevLat: NaN, prevLon: NaN, prevTime: NaN, prevLeg: NaN,
         lastDir: NaN,
       };
@@ -595,7 +690,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
           raiseAt(F, T, i, x < clim.min[m]! || x > clim.max[m]! ? SUSPECT : PASS, T_CLIMATOLOGY);
         }
       }
-      if (q && (q.spike || q.rateOfChange || q.flatLine)) windowPass(X, time, acc, plat, F, T, from, n, platforms, k, q);
+      if (q && (q.spike || q.rateOfChange || q.flatLine)) windowPass(X, time, acc, plat, F, T, from, n, platforms, k, q, flatKs[k]!);
     }
   }
 

@@ -21,8 +21,21 @@ const variableQcSchema = z.object({
   spike: z.object({ suspect: z.number().positive(), fail: z.number().positive() }).nullable(),
   /** |Vn − Vn−1| > n·σ of the values in the trailing window → 3; needs `minCount` values in the window. */
   rateOfChange: z.object({ n: z.number().positive(), windowS: z.number().positive(), minCount: z.number().int().min(2) }).nullable(),
-  /** The last `suspectCount` (or `failCount`) values all within epsilon of the current one → 3 (or 4). */
-  flatLine: z.object({ epsilon: z.number().nonnegative(), suspectCount: z.number().int().min(1), failCount: z.number().int().min(1) }).nullable(),
+  /**
+   * The last K values all within epsilon of the current one → 3 (suspect) or 4 (fail). K is `suspectCount` (or
+   * `failCount`) records, or as many records as `suspectAfterS` (`failAfterS`) seconds hold at the expected
+   * interval when that is more: the handbook's counts are for hourly data, and at 1 Hz three equal readings are
+   * ordinary (see `flatLineCounts` in shared/compute/engine.ts).
+   */
+  flatLine: z
+    .object({
+      epsilon: z.number().nonnegative(),
+      suspectCount: z.number().int().min(1),
+      failCount: z.number().int().min(1),
+      suspectAfterS: z.number().positive().nullable().default(null),
+      failAfterS: z.number().positive().nullable().default(null),
+    })
+    .nullable(),
 });
 export type VariableQc = z.infer<typeof variableQcSchema>;
 
@@ -69,22 +82,27 @@ const none: VariableQc = { sensor: null, user: null, climatology: null, spike: n
 const r = (min: number | null, max: number | null) => ({ min, max });
 const roc = { n: 3, windowS: 25 * 3600, minCount: 3 }; // N = 3 over 25 h (DOMAIN §11, from memory)
 const K0 = 273.15;
+/**
+ * Flat line: DOMAIN §11 gives K = 3 (suspect) and 5 (fail) for hourly wind, so the defaults hold for K hours at
+ * any sampling rate (and at least K records); air temperature the same, SST 10 and 20.
+ */
+const flat = (epsilon: number, suspectCount: number, failCount: number) => ({ epsilon, suspectCount, failCount, suspectAfterS: suspectCount * 3600, failAfterS: failCount * 3600 });
 
 /** Default per-variable QC, canonical units. Ranges from DOMAIN §11; spike sizes are Tauline's own choice. */
 export const defaultVariableQc: Record<MeasuredVariable, VariableQc> = {
   latitude: none,
   longitude: none,
-  wind_speed: { ...none, sensor: r(0, 60), user: r(0, 35), spike: { suspect: 8, fail: 15 }, rateOfChange: roc, flatLine: { epsilon: 0.05, suspectCount: 3, failCount: 5 } },
-  wind_from_direction: { ...none, sensor: r(0, 360), flatLine: { epsilon: 0.05, suspectCount: 3, failCount: 5 } },
+  wind_speed: { ...none, sensor: r(0, 60), user: r(0, 35), spike: { suspect: 8, fail: 15 }, rateOfChange: roc, flatLine: flat(0.05, 3, 5) },
+  wind_from_direction: { ...none, sensor: r(0, 360), flatLine: flat(0.05, 3, 5) },
   eastward_wind: { ...none, sensor: r(-60, 60), user: r(-35, 35) },
   northward_wind: { ...none, sensor: r(-60, 60), user: r(-35, 35) },
   wind_speed_of_gust: { ...none, sensor: r(0, 60), user: r(0, 45) },
-  air_temperature: { ...none, sensor: r(-60 + K0, 60 + K0), spike: { suspect: 3, fail: 6 }, rateOfChange: roc, flatLine: { epsilon: 0.01, suspectCount: 3, failCount: 5 } },
+  air_temperature: { ...none, sensor: r(-60 + K0, 60 + K0), spike: { suspect: 3, fail: 6 }, rateOfChange: roc, flatLine: flat(0.01, 3, 5) },
   air_pressure: { ...none, sensor: r(85000, 109000), user: r(95000, 105000), spike: { suspect: 300, fail: 600 }, rateOfChange: roc },
   air_pressure_at_mean_sea_level: { ...none, sensor: r(85000, 109000), user: r(95000, 105000), spike: { suspect: 300, fail: 600 }, rateOfChange: roc },
   relative_humidity: { ...none, sensor: r(0, 1.03), user: r(0, 1), spike: { suspect: 0.15, fail: 0.3 }, rateOfChange: roc },
   // Suspect floor: the freezing point at SP 35, p 0, −1.9191 °C (DOMAIN §5, computed with python3-gsw 3.6.16).
-  sea_surface_temperature: { ...none, sensor: r(-2.5 + K0, 40 + K0), user: r(-1.9191 + K0, null), spike: { suspect: 1, fail: 2 }, rateOfChange: roc, flatLine: { epsilon: 0.0001, suspectCount: 10, failCount: 20 } },
+  sea_surface_temperature: { ...none, sensor: r(-2.5 + K0, 40 + K0), user: r(-1.9191 + K0, null), spike: { suspect: 1, fail: 2 }, rateOfChange: roc, flatLine: flat(0.0001, 10, 20) },
   sea_water_temperature: { ...none, sensor: r(-2.5 + K0, 40 + K0), user: r(-1.9191 + K0, null), spike: { suspect: 1, fail: 2 }, rateOfChange: roc },
   sea_water_practical_salinity: { ...none, sensor: r(0, 42), user: r(2, 41), spike: { suspect: 0.5, fail: 1 } },
   eastward_sea_water_velocity: { ...none, sensor: r(-3, 3), user: r(-2.5, 2.5), spike: { suspect: 0.5, fail: 1 }, rateOfChange: roc },

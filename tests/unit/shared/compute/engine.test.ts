@@ -1,6 +1,6 @@
 import { describe, expect, test } from "vitest";
 import fc from "fast-check";
-import { createEngine, runEngine, type EngineBlock } from "../../../../shared/compute/engine";
+import { createEngine, FlatWindows, runEngine, type EngineBlock } from "../../../../shared/compute/engine";
 import { sliceChunk, type RecordChunk } from "../../../../shared/compute/canonical";
 import { FLAG, TEST, testRaised } from "../../../../shared/compute/flags";
 import { defaultQcSettings, type QcSettings } from "../../../../shared/schemas/qc-settings";
@@ -127,6 +127,66 @@ describe("window tests", () => {
     });
     const { out } = run(s, mooring, chunk(seconds(7), { wind_speed: [7, 7, 7, 7, 7, 7, 8] }));
     expect(out.wind_speed_qc).toEqual([1, 1, 1, 3, 3, 4, 1]);
+  });
+  test("flat line at 1 Hz: the handbook's hourly K = 3 and 5 mean 3 h and 5 h of equal readings, not 3 and 5 readings", () => {
+    // DOMAIN §11: K = 3 → suspect, K = 5 → fail "for hourly wind"; holding those spans at any sampling interval is
+    // common practice (no single source). At 1 Hz: suspect once the previous 10,800 readings are all within
+    // epsilon, fail once the previous 18,000 are. Run whole and in uneven pieces: the window crosses pieces.
+    const s = settingsWith((x) => {
+      x.variables.wind_speed!.rateOfChange = null;
+      x.variables.wind_speed!.spike = null;
+      x.timing.expectedIntervalS = 1;
+    });
+    const n = 20_000;
+    const t0 = Date.UTC(2026, 9, 1) / 1000;
+    // Ordinary 1 Hz wind at 0.1 m/s resolution repeats often; a short run of equal readings must stay good.
+    const ws = Array.from({ length: n }, (_, i) => (i < 50 ? 7 + 0.1 * (i % 2) : 7));
+    const c = chunk(Array.from({ length: n }, (_, i) => t0 + i), { wind_speed: ws });
+    for (const splits of [[], [4096, 10_850, 18_049]]) {
+      const { out } = run(s, mooring, c, splits);
+      const q = out.wind_speed_qc!;
+      const firstSuspect = q.indexOf(3);
+      const firstFail = q.indexOf(4);
+      // The last differing reading (7.1) is index 49; the first reading with 10,800 equal ones before it is
+      // 50 + 10,800, the first with 18,000 is 50 + 18,000.
+      expect(firstSuspect).toBe(50 + 10_800);
+      expect(firstFail).toBe(50 + 18_000);
+      expect(q.slice(0, firstSuspect).every((f) => f === 1)).toBe(true);
+    }
+    // With the time spans switched off the counts alone apply, as for hourly data.
+    const counts = settingsWith((x) => {
+      x.variables.wind_speed!.rateOfChange = null;
+      x.variables.wind_speed!.spike = null;
+      x.variables.wind_speed!.flatLine = { epsilon: 0.05, suspectCount: 3, failCount: 5, suspectAfterS: null, failAfterS: null };
+      x.timing.expectedIntervalS = 600;
+    });
+    expect(run(counts, mooring, chunk(seconds(7), { wind_speed: [7, 7, 7, 7, 7, 7, 8] })).out.wind_speed_qc).toEqual([1, 1, 1, 3, 3, 4, 1]);
+  });
+  test("the flat-line windows agree with checking every earlier value one by one", () => {
+    // Reference: the definition itself (the last K values all within epsilon of the current one), computed naively.
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 12 }),
+        fc.integer({ min: 0, max: 12 }),
+        fc.array(fc.integer({ min: -3, max: 3 }), { minLength: 1, maxLength: 300 }),
+        fc.constantFrom(0, 0.5, 1, 2),
+        (s, extra, steps, eps) => {
+          const f = s + extra;
+          const xs: number[] = [];
+          let v = 0;
+          for (const d of steps) xs.push((v += d % 2 === 0 ? 0 : d));
+          const w = new FlatWindows(s, f);
+          xs.forEach((x, i) => {
+            if (i >= s) {
+              const within = (k: number) => i >= k && xs.slice(i - k, i).every((y) => Math.abs(y - x) <= eps);
+              expect(w.flag(x, eps)).toBe(within(f) ? 4 : within(s) ? 3 : 1);
+            }
+            w.push(x);
+          });
+        },
+      ),
+      { numRuns: 300 },
+    );
   });
   test("rate of change flags a step beyond N·σ of the trailing window", () => {
     const s = settingsWith((x) => {
