@@ -120,8 +120,20 @@ export async function updateDataset(user: SessionUser, datasetId: string, input:
   const [d] = await db.select().from(datasets).where(eq(datasets.id, datasetId));
   if (!d) throw notFound("Dataset");
   await assertProjectAccess(user, d.projectId, "contribute");
+  const movesDeployment = input.deploymentId !== undefined && input.deploymentId !== d.deploymentId;
+  if (movesDeployment && input.deploymentId) await assertDeploymentInProject(input.deploymentId, d.projectId);
   try {
     await db.transaction(async (tx) => {
+      if (movesDeployment) {
+        // Same lock as creating a version, so no build can start between this check and the change.
+        await tx.execute(sql`select id from datasets where id = ${datasetId} for update`);
+        const built = await tx.execute(sql`select 1 from versions where dataset_id = ${datasetId} and state <> 'failed' limit 1`);
+        if (built.rows.length) {
+          throw conflict("The deployment can change only until the first version is built; make a new dataset for another deployment", {
+            deploymentId: ["Fixed once a version is built"],
+          });
+        }
+      }
       await tx.update(datasets).set(input).where(eq(datasets.id, datasetId));
       await writeAudit(tx, { actorId: user.id, action: "dataset.update", entityType: "dataset", entityId: datasetId, details: input });
     });

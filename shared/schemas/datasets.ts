@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { blankable, clearableText, idSchema, optionalText } from "./common";
+import { blankable, clearable, clearableText, idSchema, optionalText } from "./common";
 import { platformKinds } from "./platforms";
 
 export const versionStates = [
@@ -27,9 +27,13 @@ export const createDatasetInputSchema = z.object({
   licence: z.enum(licences, { message: "Choose a listed licence" }).default("CC-BY-4.0"),
 });
 export type CreateDatasetInput = z.input<typeof createDatasetInputSchema>;
-/** Edits: fields left out stay; a blank description clears it. */
+/**
+ * Edits: fields left out stay; a blank description clears it. The deployment can change (or be cleared) only until
+ * the first version is built: built versions took their position and sensor heights from it.
+ */
 export const updateDatasetInputSchema = z.object({
   title: createDatasetInputSchema.shape.title.optional(),
+  deploymentId: clearable(idSchema),
   description: clearableText(8000),
   licence: z.enum(licences, { message: "Choose a listed licence" }).optional(),
 });

@@ -3,6 +3,7 @@ import { beforeAll, describe, expect, test } from "vitest";
 import { db } from "../../server/db/client";
 import { auditLog } from "../../server/db/schema";
 import { as, makeProjectWithRoles } from "../helpers/api";
+import { makeBuildVersion } from "../helpers/pipeline";
 
 let ctx: Awaited<ReturnType<typeof makeProjectWithRoles>>;
 beforeAll(async () => {
@@ -130,6 +131,30 @@ describe("PATCH: fields left out stay, blank fields clear", () => {
     const platform = await c.patch(`/api/platforms/${p.body.id}`).send({ wmoNumber: "", description: null });
     expect(platform.status).toBe(200);
     expect(platform.body).toMatchObject({ name: "Edited mooring", wmoNumber: null, description: null });
+  });
+
+  test("a dataset's deployment can be chosen or cleared until its first version is built, and only from its project", async () => {
+    const c = as(ctx.users.contributor.cookie);
+    const p = await c.post(`/api/projects/${ctx.projectId}/platforms`).send({ name: "Drifter fleet B", kind: "drifter" });
+    const dep = await c.post(`/api/platforms/${p.body.id}/deployments`).send({ name: "Release B", startTime: "2026-05-10T00:00:00Z" });
+    const ds = await c.post(`/api/projects/${ctx.projectId}/datasets`).send({ title: "Fleet B tracks" });
+    expect(ds.body.deploymentId).toBeNull();
+    const chosen = await c.patch(`/api/datasets/${ds.body.id}`).send({ deploymentId: dep.body.id });
+    expect(chosen.status).toBe(200);
+    expect(chosen.body).toMatchObject({ deploymentId: dep.body.id, platformName: "Drifter fleet B" });
+    expect((await c.patch(`/api/datasets/${ds.body.id}`).send({ deploymentId: "" })).body.deploymentId).toBeNull();
+    // Another project's deployment (a forged id) is refused.
+    const op = await as(ctx.users.outsider.cookie).post(`/api/projects/${ctx.otherProject}/platforms`).send({ name: "Elsewhere", kind: "mooring" });
+    const od = await as(ctx.users.outsider.cookie).post(`/api/platforms/${op.body.id}/deployments`).send({ name: "E-1", startTime: "2026-05-10T00:00:00Z" });
+    const forged = await c.patch(`/api/datasets/${ds.body.id}`).send({ deploymentId: od.body.id });
+    expect(forged.status).toBe(422);
+    expect(forged.body.error.details.deploymentId).toEqual(["Choose a deployment of this project"]);
+    // Once a version is built the deployment is fixed; other fields can still change.
+    const built = await makeBuildVersion(ctx.projectId, ctx.users.contributor.id, "ready", "succeeded");
+    const late = await c.patch(`/api/datasets/${built.datasetId}`).send({ deploymentId: dep.body.id });
+    expect(late.status).toBe(409);
+    expect(late.body.error.details.deploymentId).toEqual(["Fixed once a version is built"]);
+    expect((await c.patch(`/api/datasets/${built.datasetId}`).send({ description: "Still editable" })).status).toBe(200);
   });
 
   test("a dataset's and a project's description are cleared by a blank value", async () => {

@@ -1,10 +1,8 @@
-import { useQueries } from "@tanstack/react-query";
 import { useState } from "react";
 import { Link, useNavigate, useParams, type LoaderFunctionArgs } from "react-router-dom";
 import { paths } from "@/config/paths";
 import { queryClient } from "@/lib/query-client";
 import { getErrorMessage } from "@/lib/api-client";
-import { formatUtcDate } from "@/lib/format";
 import { canContribute, roleIn, useMe } from "@/lib/session";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
@@ -17,7 +15,7 @@ import { projectQueryOptions, useProject } from "@/features/projects/api/get-pro
 import { platformsQueryOptions, usePlatforms } from "@/features/platforms/api/get-platforms";
 import { CreatePlatformForm } from "@/features/platforms/components/platform-form";
 import { PlatformTable } from "@/features/platforms/components/platform-table";
-import { deploymentsQueryOptions } from "@/features/deployments/api/get-deployments";
+import { useDeploymentOptions } from "@/features/deployments/api/get-deployment-options";
 import { datasetsQueryOptions, useDatasets } from "@/features/datasets/api/get-datasets";
 import { EditProjectForm } from "@/features/projects/components/project-form";
 import { showToast } from "@/lib/toast";
@@ -60,15 +58,9 @@ function PlatformsSection({ projectId, canAdd }: { projectId: string; canAdd: bo
 
 function DatasetsSection({ projectId, canAdd }: { projectId: string; canAdd: boolean }) {
   const { data, isPending, error } = useDatasets(projectId);
-  const platforms = usePlatforms(projectId);
   const [creating, setCreating] = useState(false);
   const navigate = useNavigate();
-  const deploymentQueries = useQueries({
-    queries: creating ? (platforms.data?.items ?? []).map((p) => deploymentsQueryOptions(p.id)) : [],
-  });
-  const deploymentOptions = (platforms.data?.items ?? []).flatMap((p, i) =>
-    (deploymentQueries[i]?.data?.items ?? []).map((d) => ({ value: d.id, label: `${p.name} · ${d.name} (from ${formatUtcDate(d.startTime)})` })),
-  );
+  const deploymentOptions = useDeploymentOptions(projectId, creating);
   return (
     <Section
       title="Datasets"

@@ -340,7 +340,7 @@ export function ColumnMapEditor({ header, rows, dialect, initial, initialSource,
         </Button>
         {actions?.(checked.ok ? checked.map : null)}
       </div>
-      {!platformId ? <p className="text-sm text-muted">This dataset has no deployment, so the map is used for this upload only. Datasets made with a deployment keep their map for the next file (a drifter fleet can be one drifter platform with a deployment).</p> : null}
+      {!platformId ? <p className="text-sm text-muted">This dataset has no deployment, so the map is used for this upload only. To keep it for the next file, choose a deployment under “Edit details” on the dataset page before the first version is built (a drifter fleet can be one drifter platform with a deployment).</p> : null}
       {saveError ? <Alert tone="attention">{saveError}</Alert> : null}
 
       {history.length ? (
