@@ -118,7 +118,7 @@ export function PlotPanel({
       cursor: { sync: { key: syncKey, setSeries: false }, drag: { x: true, y: false, setScale: false }, points: { show: false } },
       scales: { x: { time: true, range: () => [from, to] } },
       axes: [
-        { stroke: fg, grid: { stroke: grid, width: 1 }, ticks: { stroke: grid }, label: "Time (UTC)", labelSize: 18, size: 44, values: timeTicks },
+        { stroke: fg, grid: { stroke: grid, width: 1 }, ticks: { stroke: grid }, label: "Time (UTC)", labelSize: 18, size: 44, space: 90, values: timeTicks },
         { stroke: fg, grid: { stroke: grid, width: 1 }, ticks: { stroke: grid }, label: panel.unit, labelSize: 18, size: 64 },
       ],
       series: seriesOpts,
