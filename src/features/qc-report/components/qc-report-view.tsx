@@ -3,6 +3,7 @@ import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
 import { EmptyState } from "@/components/ui/empty-state";
 import { FlagBadge, type QcFlag } from "@/components/ui/flag-badge";
+import { FlagCountsTable } from "@/components/ui/flag-counts-table";
 import { Loading } from "@/components/ui/loading";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
 import { getErrorMessage } from "@/lib/api-client";
@@ -57,33 +58,20 @@ export function QcReportView({ versionId, onJump }: { versionId: string; onJump:
         <p className="text-sm text-muted">
           Values per flag in this version{r.manualFlags ? `, including ${r.manualFlags} manual flag annotation${r.manualFlags === 1 ? "" : "s"}` : ""}. Derived values take the worst flag of their inputs.
         </p>
-        <Table caption="Values per QC flag and variable">
-          <thead>
-            <tr>
-              <Th>Variable</Th>
-              {FLAGS.map((f) => (
-                <Th key={f} numeric>
-                  <FlagBadge flag={f} />
-                </Th>
-              ))}
-            </tr>
-          </thead>
-          <tbody>
-            {r.variables.map((v) => (
-              <Tr key={v.key}>
-                <Td>
-                  {v.label} <span className="text-sm text-muted">({v.unit})</span>
-                  {v.derived ? <span className="ml-1 text-xs text-muted">derived</span> : null}
-                </Td>
-                {FLAGS.map((f) => (
-                  <Td key={f} numeric>
-                    {(v.flags[f] ?? 0).toLocaleString("en")}
-                  </Td>
-                ))}
-              </Tr>
-            ))}
-          </tbody>
-        </Table>
+        <FlagCountsTable
+          caption="Values per QC flag and variable"
+          flags={FLAGS}
+          rows={r.variables.map((v) => ({
+            key: v.key,
+            cells: [
+              <>
+                {v.label} <span className="text-sm text-muted">({v.unit})</span>
+                {v.derived ? <span className="ml-1 text-xs text-muted">derived</span> : null}
+              </>,
+            ],
+            counts: v.flags,
+          }))}
+        />
       </section>
 
       <section className="space-y-2">

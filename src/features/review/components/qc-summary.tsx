@@ -3,6 +3,7 @@ import type { VersionReview } from "@shared/schemas/curation";
 import { derivedVocabulary, vocabulary } from "@shared/vocabulary";
 import { formatUtc } from "@/lib/format";
 import { FlagBadge, type QcFlag } from "@/components/ui/flag-badge";
+import { FlagCountsTable } from "@/components/ui/flag-counts-table";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
 
 export const shownFlags: QcFlag[] = [1, 2, 3, 4, 9];
@@ -60,35 +61,22 @@ export function QcSummary({ review }: { review: VersionReview }) {
         ) : null}
         .
       </p>
-      <Table caption="QC flag counts per variable">
-        <thead>
-          <tr>
-            <Th>Variable</Th>
-            <Th>Unit</Th>
-            {shownFlags.map((f) => (
-              <Th key={f} numeric>
-                <FlagBadge flag={f} />
-              </Th>
-            ))}
-          </tr>
-        </thead>
-        <tbody>
-          {summary.variables.map((v) => (
-            <Tr key={v.variable}>
-              <Td>
-                <span className="font-semibold">{variableLabel(v.variable)}</span>
-                <span className="block font-mono text-xs text-muted">{v.variable}</span>
-              </Td>
-              <Td className="whitespace-nowrap font-mono text-sm">{v.unit}</Td>
-              {shownFlags.map((f) => (
-                <Td key={f} numeric className={f >= 3 && (v.flags[f] ?? 0) > 0 ? "font-semibold" : undefined}>
-                  {int(v.flags[f] ?? 0)}
-                </Td>
-              ))}
-            </Tr>
-          ))}
-        </tbody>
-      </Table>
+      <FlagCountsTable
+        caption="QC flag counts per variable"
+        flags={shownFlags}
+        lead={["Variable", "Unit"]}
+        rows={summary.variables.map((v) => ({
+          key: v.variable,
+          cells: [
+            <>
+              <span className="font-semibold">{variableLabel(v.variable)}</span>
+              <span className="block font-mono text-xs text-muted">{v.variable}</span>
+            </>,
+            <span className="whitespace-nowrap font-mono text-sm">{v.unit}</span>,
+          ],
+          counts: v.flags,
+        }))}
+      />
 
       {tests.length ? (
         <div>

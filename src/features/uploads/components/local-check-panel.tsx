@@ -1,7 +1,7 @@
 import type { LocalCheckMessage, LocalQc } from "../workers/local-check-protocol";
-import { FlagBadge, type QcFlag } from "@/components/ui/flag-badge";
+import type { QcFlag } from "@/components/ui/flag-badge";
+import { FlagCountsTable } from "@/components/ui/flag-counts-table";
 import { Alert } from "@/components/ui/alert";
-import { Table, Td, Th, Tr } from "@/components/ui/table";
 import { vocabulary, type MeasuredVariable } from "@shared/vocabulary";
 import type { Dialect, ScanResult } from "@shared/sniff";
 import { FindingsList } from "./findings-list";
@@ -38,30 +38,11 @@ function QcSummary({ qc, source }: { qc: LocalQc; source: string }) {
         First QC pass in your browser with {source}: <span className="num">{qc.rows.toLocaleString("en-GB")}</span> records from{" "}
         <span className="num">{iso(qc.timeMin)}</span> to <span className="num">{iso(qc.timeMax)}</span>. The server repeats every check when you process the upload.
       </p>
-      <Table caption="Records per QC flag and variable, from the browser's first pass">
-        <thead>
-          <tr>
-            <Th>Variable</Th>
-            {FLAGS.map((f) => (
-              <Th key={f} numeric>
-                <FlagBadge flag={f} />
-              </Th>
-            ))}
-          </tr>
-        </thead>
-        <tbody>
-          {vars.map((v) => (
-            <Tr key={v}>
-              <Td>{vocabulary[v].label}</Td>
-              {FLAGS.map((f) => (
-                <Td key={f} numeric>
-                  {(qc.flagCounts[v]?.[f] ?? 0).toLocaleString("en-GB")}
-                </Td>
-              ))}
-            </Tr>
-          ))}
-        </tbody>
-      </Table>
+      <FlagCountsTable
+        caption="Records per QC flag and variable, from the browser's first pass"
+        flags={FLAGS}
+        rows={vars.map((v) => ({ key: v, cells: [vocabulary[v].label], counts: qc.flagCounts[v] ?? {} }))}
+      />
       {qc.warningCount ? (
         <Alert tone="attention" title={`${qc.warningCount.toLocaleString("en-GB")} fields could not be read`}>
           <ul className="list-disc pl-5">
