@@ -6,4 +6,5 @@ import { api } from "@/lib/api-client";
 export const datasetQueryOptions = (id: string) =>
   queryOptions({ queryKey: ["datasets", id], queryFn: ({ signal }) => api.get<Dataset>(`/api/datasets/${id}`, signal) });
 
-export const useDataset = (id: string) => useQuery(datasetQueryOptions(id));
+/** An empty id (e.g. while the page that knows it still loads) asks nothing. */
+export const useDataset = (id: string) => useQuery({ ...datasetQueryOptions(id), enabled: id !== "" });
