@@ -6,7 +6,7 @@ import { paths } from "@/config/paths";
 import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
-import { CopyButton } from "@/features/catalogue/components/copy-button";
+import { Snippet } from "@/features/downloads/components/script-examples";
 import { TokenManager } from "@/features/tokens/components/token-manager";
 
 type Operation = { summary: string; description?: string; tags?: string[]; parameters?: { name: string; in: string; required?: boolean; description?: string }[] };
@@ -60,17 +60,6 @@ const upload = () =>
     ").upload()",
   ].join("\n");
 
-function Code({ title, code }: { title: string; code: string }) {
-  return (
-    <figure className="space-y-1">
-      <figcaption className="flex items-center justify-between gap-2 text-sm font-semibold">
-        {title} <CopyButton text={code} what={`${title} example`} />
-      </figcaption>
-      <pre className="overflow-x-auto rounded-md border border-line bg-surface p-3 font-mono text-sm">{code}</pre>
-    </figure>
-  );
-}
-
 export function Component() {
   const { data: me } = useMe();
   const { data: doc } = useQuery({ queryKey: ["openapi"], queryFn: ({ signal }) => api.get<OpenApi>("/api/v1/openapi.json", signal), staleTime: Infinity });
@@ -98,9 +87,9 @@ export function Component() {
         </Section>
         <Section title="Examples" description="Replace VERSION_ID with the id from a dataset page or a catalogue answer (releasedVersionId). Anonymous downloads are limited per minute; a token lifts the limit.">
           <div className="space-y-4">
-            <Code title="curl" code={curl()} />
-            <Code title="Python" code={python()} />
-            <Code title="Upload from Python" code={upload()} />
+            <Snippet title="curl" code={curl()} />
+            <Snippet title="Python" code={python()} />
+            <Snippet title="Upload from Python" code={upload()} />
           </div>
         </Section>
         <Section title="Endpoints" description="Generated from the same schemas the server checks requests with.">

@@ -30,7 +30,8 @@ export function pythonExample(versionId: string) {
   ].join("\n");
 }
 
-function Snippet({ title, code }: { title: string; code: string }) {
+/** A titled code example with a copy button (also used on the API page). */
+export function Snippet({ title, code }: { title: string; code: string }) {
   return (
     <figure className="space-y-1">
       <figcaption className="flex items-center justify-between gap-2 text-sm font-semibold">
