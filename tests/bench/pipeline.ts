@@ -7,15 +7,15 @@
  * ratio = pipeline_s / baseline_s (goal ≤ 2); worker_peak_rss_mb is the worker's VmHWM (goal < 500).
  */
 import { execFileSync, spawn } from "node:child_process";
-import { randomUUID } from "node:crypto";
 import { once } from "node:events";
-import { createReadStream, linkSync, mkdirSync, readFileSync, rmSync, statSync } from "node:fs";
-import { dirname, join } from "node:path";
+import { createReadStream, readFileSync, rmSync } from "node:fs";
+import { join } from "node:path";
 import { performance } from "node:perf_hooks";
 import Papa from "papaparse";
 import pg from "pg";
 import { from as copyFrom } from "pg-copy-streams";
 import { demoMooringColumnMap } from "../../shared/demo/generate";
+import { benchUpload } from "./lib/month-version";
 import type { BenchContext } from "./run";
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -82,31 +82,7 @@ export async function run(ctx: BenchContext) {
   ctx.log(`pipeline: baseline ${base.rows} rows in ${base.seconds.toFixed(2)} s`);
 
   // A completed upload of the same file, as the upload endpoint leaves it.
-  const { uploadKey, pathForKey } = await import("../../server/lib/file-store");
-  const o = ctx.mooringOptions;
-  const userId = randomUUID();
-  await pool.query(`insert into "user" (id, name, email, email_verified, role) values ($1, 'Bench data manager', $2, true, 'admin')`, [userId, `bench-${userId.slice(0, 8)}@tauline.invalid`]);
-  const project = (await pool.query(`insert into projects (slug, name) values ($1, 'Merrow Shelf bench') returning id`, [`bench-${userId.slice(0, 8)}`])).rows[0].id;
-  const platform = (await pool.query(`insert into platforms (project_id, name, kind) values ($1, 'Merrow bench buoy', 'mooring') returning id`, [project])).rows[0].id;
-  const deployment = (
-    await pool.query(
-      `insert into deployments (platform_id, name, start_time, latitude, longitude, anemometer_height_m, coastline_offshore_bearing_deg) values ($1, 'B-1', to_timestamp($2), $3, $4, 4, 270) returning id`,
-      [platform, o.start, o.latitude, o.longitude],
-    )
-  ).rows[0].id;
-  const dataset = (await pool.query(`insert into datasets (project_id, deployment_id, title) values ($1, $2, 'Bench month') returning id`, [project, deployment])).rows[0].id;
-  const uploadId = randomUUID();
-  const key = uploadKey(uploadId);
-  mkdirSync(dirname(pathForKey(key)), { recursive: true });
-  linkSync(csv, pathForKey(key));
-  await pool.query(`insert into uploads (id, dataset_id, uploader_id, original_name, storage_key, size_bytes, sha256) values ($1, $2, $3, 'merrow-month-1hz.csv', $4, $5, $6)`, [
-    uploadId,
-    dataset,
-    userId,
-    key,
-    statSync(csv).size,
-    "0".repeat(64),
-  ]);
+  const { userId, dataset, uploadId } = await benchUpload(pool, csv, { title: "Bench month", role: "admin", coastlineDeg: 270 });
 
   // BENCH_PROFILE=DIR writes a CPU profile of the worker into DIR.
   const profile = process.env.BENCH_PROFILE ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_PROFILE}`] : [];

@@ -31,34 +31,7 @@ export async function monthVersion(dir: string) {
   let version = (await find()).rows[0];
   if (!version) {
     const csv = join(dir, `mooring-1hz-${demoMooringDefaults.seed}-${31 * 86400}.csv`);
-    const o = { ...demoMooringDefaults, intervalS: 1, durationS: 31 * 86400 };
-    const tag = randomUUID().slice(0, 8);
-    const userId = randomUUID();
-    await pool.query(`insert into "user" (id, name, email, email_verified, role) values ($1, 'Bench builder', $2, true, 'user')`, [userId, `bench-build-${tag}@tauline.invalid`]);
-    const project = (await pool.query(`insert into projects (slug, name) values ($1, 'Merrow Shelf plot bench') returning id`, [`plot-bench-${tag}`])).rows[0].id;
-    const platform = (await pool.query(`insert into platforms (project_id, name, kind) values ($1, 'Merrow plot buoy', 'mooring') returning id`, [project])).rows[0].id;
-    const deployment = (
-      await pool.query(`insert into deployments (platform_id, name, start_time, latitude, longitude, anemometer_height_m) values ($1, 'P-1', to_timestamp($2), $3, $4, 4) returning id`, [
-        platform,
-        o.start,
-        o.latitude,
-        o.longitude,
-      ])
-    ).rows[0].id;
-    const dataset = (await pool.query(`insert into datasets (project_id, deployment_id, title) values ($1, $2, 'Bench plot month') returning id`, [project, deployment])).rows[0].id;
-    const { uploadKey, pathForKey } = await import("../../../server/lib/file-store");
-    const uploadId = randomUUID();
-    const key = uploadKey(uploadId);
-    mkdirSync(dirname(pathForKey(key)), { recursive: true });
-    linkSync(csv, pathForKey(key));
-    await pool.query(`insert into uploads (id, dataset_id, uploader_id, original_name, storage_key, size_bytes, sha256) values ($1, $2, $3, 'merrow-month-1hz.csv', $4, $5, $6)`, [
-      uploadId,
-      dataset,
-      userId,
-      key,
-      statSync(csv).size,
-      "0".repeat(64),
-    ]);
+    const { userId, dataset, uploadId } = await benchUpload(pool, csv, { title: "Bench plot month", role: "user" });
     const v = (await pool.query(`insert into versions (dataset_id, number, state, upload_id, created_by) values ($1, 1, 'processing', $2, $3) returning id`, [dataset, uploadId, userId])).rows[0];
     await pool.query(`insert into qc_runs (version_id, mode, column_map) values ($1, 'replace', $2)`, [v.id, JSON.stringify(demoMooringColumnMap())]);
     log("building the month-at-1-Hz version (once; later runs reuse it)");
@@ -68,6 +41,40 @@ export async function monthVersion(dir: string) {
     version = (await find()).rows[0];
   }
   return { version: version as { id: string; dataset_id: string; number: number; rows: number }, pool };
+}
+
+/**
+ * A stored upload of `csv` (hard-linked, as the upload endpoint leaves a finished file) in a fresh bench project with
+ * a platform, a deployment at the demo mooring's position and a dataset titled `title`.
+ */
+export async function benchUpload(pool: pg.Pool, csv: string, opts: { title: string; role: "user" | "admin"; coastlineDeg?: number }) {
+  const o = demoMooringDefaults;
+  const tag = randomUUID().slice(0, 8);
+  const userId = randomUUID();
+  await pool.query(`insert into "user" (id, name, email, email_verified, role) values ($1, 'Bench data manager', $2, true, $3)`, [userId, `bench-${tag}@tauline.invalid`, opts.role]);
+  const project = (await pool.query(`insert into projects (slug, name) values ($1, 'Merrow Shelf bench') returning id`, [`bench-${tag}`])).rows[0].id;
+  const platform = (await pool.query(`insert into platforms (project_id, name, kind) values ($1, 'Merrow bench buoy', 'mooring') returning id`, [project])).rows[0].id;
+  const deployment = (
+    await pool.query(
+      `insert into deployments (platform_id, name, start_time, latitude, longitude, anemometer_height_m, coastline_offshore_bearing_deg) values ($1, 'B-1', to_timestamp($2), $3, $4, 4, $5) returning id`,
+      [platform, o.start, o.latitude, o.longitude, opts.coastlineDeg ?? null],
+    )
+  ).rows[0].id;
+  const dataset = (await pool.query(`insert into datasets (project_id, deployment_id, title) values ($1, $2, $3) returning id`, [project, deployment, opts.title])).rows[0].id;
+  const { uploadKey, pathForKey } = await import("../../../server/lib/file-store");
+  const uploadId = randomUUID();
+  const key = uploadKey(uploadId);
+  mkdirSync(dirname(pathForKey(key)), { recursive: true });
+  linkSync(csv, pathForKey(key));
+  await pool.query(`insert into uploads (id, dataset_id, uploader_id, original_name, storage_key, size_bytes, sha256) values ($1, $2, $3, 'merrow-month-1hz.csv', $4, $5, $6)`, [
+    uploadId,
+    dataset,
+    userId,
+    key,
+    statSync(csv).size,
+    "0".repeat(64),
+  ]);
+  return { userId, dataset, uploadId };
 }
 
 /** An admin session on the app (admins may read every version). */
