@@ -7,7 +7,11 @@ import { mailMessages } from "../db/schema";
  * The local fake SMTP server: accepts every message on loopback and keeps it in PostgreSQL, where
  * admins read it on the outgoing-mail page. Nothing is relayed anywhere.
  */
-export function createFakeSmtp(db: Db, onStored?: (id: string) => void) {
+export function createFakeSmtp(
+  db: Db,
+  onStored?: (id: string) => void,
+  onConnectionError?: (err: Error) => void,
+) {
   const server = new SMTPServer({
     authOptional: true,
     disabledCommands: ["STARTTLS", "AUTH"],
@@ -40,11 +44,20 @@ export function createFakeSmtp(db: Db, onStored?: (id: string) => void) {
       });
     },
   });
+  // A client that drops its connection (a test process exiting mid-conversation, a reset socket)
+  // makes the server emit "error". With no listener Node would end the whole process, so every
+  // error after start-up is reported and the server goes on serving other connections.
+  let listening = false;
+  server.on("error", (err: Error) => {
+    if (listening) onConnectionError?.(err);
+  });
   return {
     listen: (port: number, host = "127.0.0.1") =>
       new Promise<number>((resolve, reject) => {
         server.once("error", reject);
         server.listen(port, host, () => {
+          server.off("error", reject);
+          listening = true;
           const addr = server.server.address();
           resolve(typeof addr === "object" && addr ? addr.port : port);
         });
