@@ -95,6 +95,7 @@ export function createSummariser(variables: readonly string[], units: readonly s
   const maxGap = intervalS ? intervalS * gapFactor : Infinity;
   let gaps: Gap[] = [];
   let gapCount = 0;
+  let bucketOf = new Int32Array(0);
 
   const newBuckets = (step: number, t: number): Buckets => ({
     step,
@@ -151,12 +152,16 @@ export function createSummariser(variables: readonly string[], units: readonly s
         p = { rows: 0, first: t, last: NaN, buckets: [newBuckets(PLOT_STEPS_S[0], t)] };
         platforms.set(platform, p);
       }
-      // Timing and coverage.
+      // Timing and coverage; each row's minute bucket, found once for all variables.
+      const b1 = p.buckets[0]!;
+      const s1 = b1.step, t01 = b1.t0;
+      if (bucketOf.length < to - from) bucketOf = new Int32Array(Math.max(to - from, bucketOf.length * 2));
       let last = p.last;
       for (let k = from; k < to; k++) {
         const t = time[idx[k]!]!;
         if (last === last && t - last > maxGap) noteGap({ platform, from: last, to: t });
         last = t;
+        bucketOf[k - from] = Math.floor((t - t01) / s1);
       }
       p.last = last;
       p.rows += to - from;
@@ -170,9 +175,7 @@ export function createSummariser(variables: readonly string[], units: readonly s
           continue;
         }
         let c = count[v]!, mu = mean[v]!, s2 = m2[v]!, lo = min[v]!, hi = max[v]!;
-        const b1 = p.buckets[0]!;
         const mn1 = b1.min[v]!, mx1 = b1.max[v]!, sm1 = b1.sum[v]!, n1 = b1.n[v]!, w1 = b1.worst[v]!;
-        const s1 = b1.step, t01 = b1.t0;
         for (let k = from; k < to; k++) {
           const i = idx[k]!;
           const f = F[i]!;
@@ -187,8 +190,7 @@ export function createSummariser(variables: readonly string[], units: readonly s
             if (x < lo) lo = x;
             if (x > hi) hi = x;
           }
-          const t = time[i]!;
-          const j1 = Math.floor((t - t01) / s1);
+          const j1 = bucketOf[k - from]!;
           if (x < mn1[j1]!) mn1[j1] = x;
           if (x > mx1[j1]!) mx1[j1] = x;
           sm1[j1]! += x;

@@ -1,6 +1,7 @@
+import fc from "fast-check";
 import { describe, expect, test } from "vitest";
 import { columnMapSchema, type ColumnMapInput } from "../../../../shared/schemas/column-map";
-import { compileTimePattern, createCanonicalizer, daysFromCivil, parseIsoTime } from "../../../../shared/compute/canonical";
+import { compileTimePattern, createCanonicalizer, daysFromCivil, parseDecimal, parseIsoTime } from "../../../../shared/compute/canonical";
 
 const map = (m: Partial<ColumnMapInput> & Pick<ColumnMapInput, "columns">) => columnMapSchema.parse({ time: { columns: ["time"] }, ...m });
 
@@ -27,6 +28,30 @@ describe("time parsing (ISO 8601, CF seconds since 1970-01-01T00:00:00Z)", () =>
   test("day numbers match the platform calendar", () => {
     expect(daysFromCivil(1970, 1, 1)).toBe(0);
     expect(daysFromCivil(2000, 3, 1) * 86400 * 1000).toBe(Date.UTC(2000, 2, 1));
+  });
+});
+
+describe("number fields: parseDecimal returns exactly what the platform's Number returns (ECMAScript StringToNumber)", () => {
+  const same = (text: string, comma = false) => {
+    const want = Number(comma ? text.replace(",", ".") : text);
+    expect(Object.is(parseDecimal(text, comma), want), `${JSON.stringify(text)} comma=${comma}: got ${parseDecimal(text, comma)}, Number gives ${want}`).toBe(true);
+  };
+  test("edge cases: signs, zeros, bare points, long digit runs, exponents, blanks and words", () => {
+    for (const t of ["0", "-0", "+0", "-0.0", "0.1", ".5", "5.", "-.5", "+12.5", "00012.50", "1015.99", "-12.31", "999999999999999", "9999999999999999",
+      "0.000000000000001", "123456789.123456", "1.7976931348623157", "1e3", "1E-3", "-", "+", ".", "..", "1.2.3", " 12", "12 ", "",
+      "NaN", "Infinity", "-Infinity", "0x10", "1_000", "12a", "٣", "1,5", "1.000,5"])
+      for (const comma of [false, true]) same(t, comma);
+  });
+  test("any double written as a logger would (fixed decimals, precision, shortest form, with a comma mark) reads back as Number reads it", () => {
+    fc.assert(
+      fc.property(fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e12, max: 1e12 }), fc.integer({ min: 0, max: 12 }), fc.integer({ min: 1, max: 17 }), (x, k, p) => {
+        for (const t of [x.toFixed(k), x.toPrecision(p), String(x)]) {
+          same(t);
+          same(t.replace(".", ","), true);
+        }
+      }),
+      { numRuns: 3000 },
+    );
   });
 });
 
