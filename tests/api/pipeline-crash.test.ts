@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { afterAll, beforeAll, describe, expect, onTestFailed, test } from "vitest";
 import { pool } from "../../server/db/client";
 import { stopSender } from "../../server/jobs/queue";
 import { as, makeProjectWithRoles } from "../helpers/api";
@@ -15,6 +15,11 @@ const day = Date.UTC(2026, 9, 1) / 1000;
 // A day at 1 Hz: long enough to interrupt mid-stream, short enough for a test.
 const text = mooringText({ start: day, durationS: 86400, intervalS: 1 });
 let reference = "";
+
+/** When a crash test fails, the workers' own log lines are what tell why. */
+function printWorkerLogs() {
+  workers.forEach((w, i) => console.log(`worker ${i + 1} log (last 4000 characters):\n${w.output().slice(-4000)}`));
+}
 
 /** Every column of every row a dataset's head version sees, minus the dataset id, as one digest. */
 async function digest(datasetId: string) {
@@ -59,6 +64,7 @@ afterAll(async () => {
 
 describe("crash safety", () => {
   test("a killed worker's build is retried by another worker: identical result, no duplicate rows", async () => {
+    onTestFailed(printWorkerLogs);
     const { datasetId, versionId } = await createBuild();
     await waitRunning(versionId);
     await workers[0]!.kill();
@@ -76,6 +82,7 @@ describe("crash safety", () => {
   }, 240_000);
 
   test("losing the database connection mid-build fails the attempt cleanly and the retry completes", async () => {
+    onTestFailed(printWorkerLogs);
     const { datasetId, versionId } = await createBuild();
     await waitRunning(versionId);
     const cut = await pool.query(`select pg_terminate_backend(pid) from pg_stat_activity where datname = current_database() and application_name = 'tauline-build'`);
