@@ -11,7 +11,7 @@ const boss = createQueue();
 boss.on("error", (err) => logger.error({ err }, "queue error"));
 await boss.start();
 for (const job of jobs) {
-  await boss.createQueue(job.name);
+  await boss.createQueue(job.name, job.queue ? { name: job.name, ...job.queue } : undefined);
   await job.register(boss);
 }
 logger.info(`worker ready; serving ${jobs.length ? jobs.map((j) => j.name).join(", ") : "no job types yet"}`);

@@ -1,15 +1,19 @@
 import type PgBoss from "pg-boss";
+import type { QueueSettings } from "./queue";
 import { arrayDiagnosticsJob } from "./array-diagnostics.job";
 import { buildVersionJob } from "./build-version.job";
+import { inspectUploadJob } from "./inspect-upload.job";
 import { rebuildSummariesJob } from "./rebuild-summaries.job";
 import { releaseFilesJob } from "./release-files.job";
 
 /** A job the worker runs: a queue name, and a handler that is idempotent (safe to retry). */
 export interface JobDefinition {
   name: string;
+  /** How its queue keeps jobs, when not pg-boss's standard policy (senders must create it the same way). */
+  queue?: QueueSettings;
   /** Registers the handler on the queue. */
   register(boss: PgBoss): Promise<void>;
 }
 
 /** Every job the worker serves. */
-export const jobs: JobDefinition[] = [buildVersionJob, rebuildSummariesJob, arrayDiagnosticsJob, releaseFilesJob];
+export const jobs: JobDefinition[] = [buildVersionJob, rebuildSummariesJob, arrayDiagnosticsJob, releaseFilesJob, inspectUploadJob];

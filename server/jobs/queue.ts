@@ -6,6 +6,9 @@ export function createQueue() {
   return new PgBoss({ connectionString: env.DATABASE_URL, schema: "pgboss" });
 }
 
+/** How a queue keeps its jobs (its policy, e.g. "stately": one queued and one active job per singleton key). */
+export type QueueSettings = Omit<PgBoss.Queue, "name">;
+
 let sender: Promise<PgBoss> | undefined;
 const created = new Set<string>();
 
@@ -13,7 +16,7 @@ const created = new Set<string>();
  * A queue handle for processes that only send jobs (the API): no maintenance or scheduling of its own, started
  * once per process. Creates a queue on first use, so the API can enqueue before any worker has started.
  */
-export async function enqueue(name: string, data: object, options: PgBoss.SendOptions = {}): Promise<string | null> {
+export async function enqueue(name: string, data: object, options: PgBoss.SendOptions = {}, queue?: QueueSettings): Promise<string | null> {
   sender ??= (async () => {
     const boss = new PgBoss({ connectionString: env.DATABASE_URL, schema: "pgboss", supervise: false, schedule: false, max: 2 });
     boss.on("error", () => undefined);
@@ -25,7 +28,7 @@ export async function enqueue(name: string, data: object, options: PgBoss.SendOp
     throw e;
   });
   if (!created.has(name)) {
-    await boss.createQueue(name);
+    await boss.createQueue(name, queue ? { name, ...queue } : undefined);
     created.add(name);
   }
   return boss.send(name, data, options);

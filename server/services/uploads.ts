@@ -9,6 +9,7 @@ import { db } from "../db/client";
 import { columnMaps, datasets, deployments, platforms, uploadInspections, uploads, user as users } from "../db/schema";
 import { AppError, forbidden, notFound } from "../lib/errors";
 import { pathForKey, storageDir, tusPartKey, uploadKey } from "../lib/file-store";
+import { enqueue, type QueueSettings } from "../jobs/queue";
 import { logger } from "../lib/logger";
 import type { SessionUser } from "../middleware/require-session";
 import { assertProjectAccess } from "./access";
@@ -114,12 +115,28 @@ export async function recordFinishedUpload(store: HashingFileStore, user: Sessio
     throw new AppError("internal", "The file arrived but could not be recorded. Upload it again.", 500, undefined, { cause: e });
   }
   await store.configstore.delete(id).catch(() => undefined);
-  if (!scan) void inspectStoredUpload(id);
+  if (!scan) requestInspection(id);
+}
+
+/** Queue of the full-file scan of a stored upload (run by workers: server/jobs/inspect-upload.job.ts). */
+export const INSPECT_UPLOAD = "inspect-upload";
+/** At most one queued and one running scan per upload, however often its page asks. */
+export const INSPECT_UPLOAD_QUEUE: QueueSettings = { policy: "stately" };
+
+/**
+ * Asks a worker to scan a stored upload end to end. A 5 GB file is minutes of CPU, which belongs on a worker,
+ * not on an app server's event loop. One job per upload at a time (the key); failures are logged, and the
+ * upload's page asks again while its inspection still says "checking".
+ */
+export function requestInspection(uploadId: string): void {
+  enqueue(INSPECT_UPLOAD, { uploadId }, { singletonKey: uploadId, retryLimit: 3, retryDelay: 10 }, INSPECT_UPLOAD_QUEUE).catch((err) =>
+    logger.error({ err, uploadId }, "could not queue the scan of an upload"),
+  );
 }
 
 const running = new Map<string, Promise<void>>();
 
-/** Scans a stored upload end to end and records what it found. One scan per upload at a time. */
+/** Scans a stored upload end to end and records what it found. One scan per upload at a time in this process. */
 export function inspectStoredUpload(uploadId: string): Promise<void> {
   const existing = running.get(uploadId);
   if (existing) return existing;
@@ -133,7 +150,7 @@ export function inspectStoredUpload(uploadId: string): Promise<void> {
     const decoder = new TextDecoder("utf-8");
     let result: ScanResult;
     try {
-      // Small pieces with a yield between them, so the scan never holds the API's event loop for long.
+      // Small pieces with a yield between them, so the scan never holds the worker's event loop (heartbeats, other jobs) for long.
       for await (const chunk of createReadStream(pathForKey(uploadKey(uploadId)), { highWaterMark: 256 * 1024 })) {
         scanner.push(decoder.decode(chunk as Buffer, { stream: true }));
         await new Promise((r) => setImmediate(r));
@@ -232,7 +249,7 @@ export async function getUploadDetail(user: SessionUser | null | undefined, uplo
     throw user.isAdmin ? notFound("Upload") : forbidden("You are not a member of this project");
   }
   await assertProjectAccess(user, row.projectId, "read");
-  if (row.status === "checking") void inspectStoredUpload(uploadId);
+  if (row.status === "checking") requestInspection(uploadId);
 
   const detected = (row.detected as Dialect | null) ?? null;
   const dialect: Dialect | null = detected ? { ...detected, ...Object.fromEntries(Object.entries(overrides).filter(([, v]) => v !== undefined)) } : null;

@@ -8,6 +8,7 @@ import { db } from "../../server/db/client";
 import { auditLog, uploadInspections, uploads } from "../../server/db/schema";
 import { pathForKey, storageDir, uploadKey } from "../../server/lib/file-store";
 import { as, makeProjectWithRoles } from "../helpers/api";
+import { startWorker } from "../helpers/pipeline";
 import { idFromUrl, listenApp, makeDataset, sha256, tusUpload } from "../helpers/uploads";
 
 let ctx: Awaited<ReturnType<typeof makeProjectWithRoles>>;
@@ -193,15 +194,25 @@ describe("bad files get a clear answer and leave nothing stored", () => {
     expect(by.time_mixed_zones!.message).toContain("+02:00");
   });
 
-  test("a large file is scanned in the background and its late problems reported", async () => {
+  test("a large file is scanned in the background by a worker, and its late problems reported", async () => {
     const data = Buffer.concat([demoCsv(30_000), Buffer.from("2026-03-01T00:00:00Z,1,2\n")]);
     const r = await tusUpload(app.base, ctx.users.contributor.cookie, data, { datasetId: ds.datasetId });
     expect(r.ok).toBe(true);
     const id = idFromUrl(r.url);
-    let status = "checking";
-    for (let i = 0; i < 100 && status === "checking"; i++) {
-      await new Promise((res) => setTimeout(res, 100));
-      status = (await db.select().from(uploadInspections).where(eq(uploadInspections.uploadId, id)))[0]!.status;
+    const statusNow = async () => (await db.select().from(uploadInspections).where(eq(uploadInspections.uploadId, id)))[0]!.status;
+    // Too large to scan when it finished, and no worker yet: the app server left the scan on the queue.
+    await new Promise((res) => setTimeout(res, 500));
+    expect(await statusNow()).toBe("checking");
+    const worker = await startWorker();
+    try {
+      let status = "checking";
+      for (let i = 0; i < 200 && status === "checking"; i++) {
+        await new Promise((res) => setTimeout(res, 100));
+        status = await statusNow();
+      }
+      expect(worker.output()).toMatch(new RegExp(`"uploadId":"${id}".*\\[inspect-upload\\]\\[[^\\]]+\\] scanned`));
+    } finally {
+      await worker.stop();
     }
     const d = uploadDetailSchema.parse((await as(ctx.users.contributor.cookie).get(`/api/uploads/${id}`)).body);
     expect(d.status).toBe("warnings");

@@ -6,9 +6,9 @@
  *      process (`node --import tsx server/worker.ts`), timed from the create call to state "ready".
  * ratio = pipeline_s / baseline_s (goal ≤ 2); worker_peak_rss_mb is the worker's VmHWM (goal < 500).
  */
-import { execFileSync, spawn } from "node:child_process";
+import { execFileSync } from "node:child_process";
 import { once } from "node:events";
-import { createReadStream, readFileSync, rmSync } from "node:fs";
+import { createReadStream, rmSync } from "node:fs";
 import { join } from "node:path";
 import { performance } from "node:perf_hooks";
 import Papa from "papaparse";
@@ -16,6 +16,7 @@ import pg from "pg";
 import { from as copyFrom } from "pg-copy-streams";
 import { demoMooringColumnMap } from "../../shared/demo/generate";
 import { benchUpload } from "./lib/month-version";
+import { startBenchWorker } from "./lib/worker";
 import type { BenchContext } from "./run";
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
@@ -84,18 +85,7 @@ export async function run(ctx: BenchContext) {
   // A completed upload of the same file, as the upload endpoint leaves it.
   const { userId, dataset, uploadId } = await benchUpload(pool, csv, { title: "Bench month", role: "admin", coastlineDeg: 270 });
 
-  // BENCH_PROFILE=DIR writes a CPU profile of the worker into DIR.
-  const profile = process.env.BENCH_PROFILE ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_PROFILE}`] : [];
-  const worker = spawn(process.execPath, [...profile, "--import", "tsx", "server/worker.ts"], {
-    env: { ...process.env, NODE_ENV: "production", LOG_LEVEL: "info" },
-    stdio: ["ignore", "pipe", "inherit"],
-  });
-  let out = "";
-  worker.stdout!.on("data", (b) => (out += b));
-  while (!out.includes("worker ready")) {
-    if (worker.exitCode !== null) throw new Error(`worker exited: ${out}`);
-    await sleep(50);
-  }
+  const worker = await startBenchWorker();
   const { createVersion } = await import("../../server/services/versions");
   const { stopSender } = await import("../../server/jobs/queue");
   ctx.log("pipeline: building a version from the upload");
@@ -111,21 +101,19 @@ export async function run(ctx: BenchContext) {
     state = (await pool.query(`select state from versions where id = $1`, [v.id])).rows[0].state;
   }
   const pipelineS = (performance.now() - t0) / 1000;
-  const status = readFileSync(`/proc/${worker.pid}/status`, "utf8");
-  const hwmKb = Number(/VmHWM:\s+(\d+)/.exec(status)?.[1] ?? NaN);
+  const peakMb = worker.peakRssMb();
   const run = (await pool.query(`select rows_done, timings, error from qc_runs where version_id = $1`, [v.id])).rows[0];
-  worker.kill("SIGTERM");
-  await once(worker, "exit");
+  await worker.stop();
   await stopSender();
   if (state !== "ready") throw new Error(`pipeline build ended ${state}: ${JSON.stringify(run.error)}`);
   const rows = Number(run.rows_done);
-  ctx.log(`pipeline: ${rows} rows ready in ${pipelineS.toFixed(2)} s (${JSON.stringify(run.timings)}); worker peak RSS ${(hwmKb / 1024).toFixed(0)} MB`);
+  ctx.log(`pipeline: ${rows} rows ready in ${pipelineS.toFixed(2)} s (${JSON.stringify(run.timings)}); worker peak RSS ${peakMb.toFixed(0)} MB`);
   await pool.end();
   return {
     rows,
     baseline_s: Number(base.seconds.toFixed(2)),
     pipeline_s: Number(pipelineS.toFixed(2)),
     ratio: Number((pipelineS / base.seconds).toFixed(3)),
-    worker_peak_rss_mb: Math.round(hwmKb / 1024),
+    worker_peak_rss_mb: Math.round(peakMb),
   };
 }
