@@ -1,7 +1,17 @@
 import { idParamsSchema } from "@shared/schemas/common";
 import { createDeploymentInputSchema, updateDeploymentInputSchema, updatePlatformInputSchema } from "@shared/schemas/platforms";
+import { updateDeploymentQcSettingsInputSchema } from "@shared/schemas/qc-settings";
 import { apiRouter } from "../lib/routes";
-import { createDeployment, getDeployment, getPlatform, listDeployments, updateDeployment, updatePlatform } from "../services/platforms";
+import {
+  createDeployment,
+  getDeployment,
+  getDeploymentQcSettings,
+  getPlatform,
+  listDeployments,
+  updateDeployment,
+  updateDeploymentQcSettings,
+  updatePlatform,
+} from "../services/platforms";
 
 export const platformsApi = apiRouter("/api/platforms");
 
@@ -41,4 +51,16 @@ deploymentsApi.get("/:id", "session", async (req, res) => {
 deploymentsApi.patch("/:id", "session", async (req, res) => {
   const { id } = idParamsSchema.parse(req.params);
   res.json(await updateDeployment(req.user!, id, updateDeploymentInputSchema.parse(req.body)));
+});
+
+// GET /api/deployments/:id/qc-settings
+deploymentsApi.get("/:id/qc-settings", "session", async (req, res) => {
+  const { id } = idParamsSchema.parse(req.params);
+  res.json(await getDeploymentQcSettings(req.user!, id));
+});
+
+// PATCH /api/deployments/:id/qc-settings — replaces the overrides ({} = defaults)
+deploymentsApi.patch("/:id/qc-settings", "session", async (req, res) => {
+  const { id } = idParamsSchema.parse(req.params);
+  res.json(await updateDeploymentQcSettings(req.user!, id, updateDeploymentQcSettingsInputSchema.parse(req.body)));
 });

@@ -7,9 +7,18 @@ import type {
   UpdateDeploymentInput,
   UpdatePlatformInput,
 } from "@shared/schemas/platforms";
+import {
+  defaultQcSettings,
+  resolveQcSettings,
+  unknownSettingPaths,
+  type DeploymentQcSettings,
+  type QcSettingsInput,
+  type UpdateDeploymentQcSettingsInput,
+} from "@shared/schemas/qc-settings";
 import { db } from "../db/client";
-import { deployments, platforms } from "../db/schema";
-import { conflict, notFound } from "../lib/errors";
+import { deploymentQcSettings, deployments, platforms, user as users } from "../db/schema";
+import { AppError, conflict, notFound } from "../lib/errors";
+import { zodDetails } from "../middleware/error-handler";
 import type { SessionUser } from "../middleware/require-session";
 import { assertProjectAccess } from "./access";
 import { writeAudit } from "./audit";
@@ -167,4 +176,55 @@ export async function updateDeployment(user: SessionUser, deploymentId: string, 
     throw err;
   }
   return getDeployment(user, deploymentId);
+}
+
+/**
+ * A deployment's QC settings: the overrides stored for it and what its next build resolves them to (defaults from
+ * shared/schemas/qc-settings.ts underneath; a build's own overrides still go on top). Members of its project read.
+ */
+export async function getDeploymentQcSettings(user: SessionUser, deploymentId: string): Promise<DeploymentQcSettings> {
+  await loadDeployment(user, deploymentId, "read");
+  const [row] = await db
+    .select({ settings: deploymentQcSettings.settings, updatedAt: deploymentQcSettings.updatedAt, updatedByName: users.name })
+    .from(deploymentQcSettings)
+    .leftJoin(users, eq(users.id, deploymentQcSettings.updatedBy))
+    .where(eq(deploymentQcSettings.deploymentId, deploymentId));
+  const overrides = (row?.settings ?? {}) as Record<string, unknown>;
+  const resolved = resolveQcSettings(overrides as QcSettingsInput);
+  if (!resolved.success) throw conflict("The stored QC settings of this deployment are no longer valid; save them again", zodDetails(resolved.error));
+  return {
+    deploymentId,
+    overrides,
+    settings: resolved.data,
+    defaults: defaultQcSettings(),
+    updatedAt: row?.updatedAt ? row.updatedAt.toISOString() : null,
+    updatedByName: row?.updatedByName ?? null,
+  };
+}
+
+/**
+ * Replaces a deployment's QC overrides (an empty object goes back to the defaults). Contributors and curators of
+ * its project may; a setting the schema does not have, or a value it refuses, is named by its path. Builds already
+ * made keep the settings snapshot they used; the next build uses these.
+ */
+export async function updateDeploymentQcSettings(user: SessionUser, deploymentId: string, input: UpdateDeploymentQcSettingsInput): Promise<DeploymentQcSettings> {
+  await loadDeployment(user, deploymentId, "contribute");
+  const unknown = unknownSettingPaths(input.overrides);
+  if (unknown.length)
+    throw new AppError("validation_failed", "Some settings are not ones Tauline knows", 400, Object.fromEntries(unknown.map((p) => [`overrides.${p}`, ["Not a QC setting; check the spelling"]])));
+  const resolved = resolveQcSettings(input.overrides as QcSettingsInput);
+  if (!resolved.success) {
+    const details = zodDetails(resolved.error);
+    throw new AppError("validation_failed", "Some settings need attention", 400, Object.fromEntries(Object.entries(details).map(([k, v]) => [`overrides.${k}`, v])));
+  }
+  await db.transaction(async (tx) => {
+    if (Object.keys(input.overrides).length === 0) await tx.delete(deploymentQcSettings).where(eq(deploymentQcSettings.deploymentId, deploymentId));
+    else
+      await tx
+        .insert(deploymentQcSettings)
+        .values({ deploymentId, settings: input.overrides, updatedBy: user.id, updatedAt: new Date() })
+        .onConflictDoUpdate({ target: deploymentQcSettings.deploymentId, set: { settings: input.overrides, updatedBy: user.id, updatedAt: new Date() } });
+    await writeAudit(tx, { actorId: user.id, action: "deployment.qc_settings", entityType: "deployment", entityId: deploymentId, details: { overrides: input.overrides } });
+  });
+  return getDeploymentQcSettings(user, deploymentId);
 }

@@ -150,3 +150,34 @@ function merge(base: unknown, over: unknown): unknown {
 export function resolveQcSettings(overrides: QcSettingsInput = {}) {
   return qcSettingsSchema.safeParse(merge(defaultQcSettings(), overrides));
 }
+
+/**
+ * Setting paths in `overrides` that the settings do not have (a misspelt variable or threshold would otherwise be
+ * dropped without a word), as dotted paths. A `null` override is allowed anywhere (it switches a test off).
+ */
+export function unknownSettingPaths(overrides: unknown, base: unknown = defaultQcSettings(), at = ""): string[] {
+  if (overrides === null || typeof overrides !== "object" || Array.isArray(overrides)) return [];
+  if (base === null || typeof base !== "object" || Array.isArray(base)) return [];
+  const out: string[] = [];
+  for (const [k, v] of Object.entries(overrides as Record<string, unknown>)) {
+    const path = at ? `${at}.${k}` : k;
+    if (!(k in (base as Record<string, unknown>))) out.push(path);
+    else out.push(...unknownSettingPaths(v, (base as Record<string, unknown>)[k], path));
+  }
+  return out;
+}
+
+/** A deployment's QC settings: its stored overrides, and the settings its next build will use (defaults merged). */
+export const deploymentQcSettingsSchema = z.object({
+  deploymentId: z.string(),
+  overrides: z.record(z.string(), z.unknown()),
+  settings: qcSettingsSchema,
+  defaults: qcSettingsSchema,
+  updatedAt: z.string().nullable(),
+  updatedByName: z.string().nullable(),
+});
+export type DeploymentQcSettings = z.infer<typeof deploymentQcSettingsSchema>;
+
+/** Replaces a deployment's overrides ({} = back to the defaults). Checked by resolving them over the defaults. */
+export const updateDeploymentQcSettingsInputSchema = z.object({ overrides: z.record(z.string(), z.unknown()) });
+export type UpdateDeploymentQcSettingsInput = z.infer<typeof updateDeploymentQcSettingsInputSchema>;

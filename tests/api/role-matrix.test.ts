@@ -110,6 +110,11 @@ const matrix: Record<string, Case> = {
   },
   "GET /api/deployments/:id": { call: (i) => ({ url: `/api/deployments/${i.deploymentId}` }), expect: readMembers },
   "PATCH /api/deployments/:id": { call: (i) => ({ url: `/api/deployments/${i.deploymentId}`, body: { notes: `edited ${u()}` } }), expect: writeMembers },
+  "GET /api/deployments/:id/qc-settings": { call: (i) => ({ url: `/api/deployments/${i.deploymentId}/qc-settings` }), expect: readMembers },
+  "PATCH /api/deployments/:id/qc-settings": {
+    call: (i) => ({ url: `/api/deployments/${i.deploymentId}/qc-settings`, body: { overrides: { variables: { wind_speed: { user: { min: 0, max: 30 } } } } } }),
+    expect: writeMembers,
+  },
   // The dataset has no release yet, so only members see it.
   "GET /api/datasets/:id": { call: (i) => ({ url: `/api/datasets/${i.datasetId}` }), expect: readMembers },
   "PATCH /api/datasets/:id": { call: (i) => ({ url: `/api/datasets/${i.datasetId}`, body: { description: `edited ${u()}` } }), expect: writeMembers },

@@ -1,0 +1,72 @@
+import { beforeAll, describe, expect, test } from "vitest";
+import { defaultQcSettings, deploymentQcSettingsSchema } from "@shared/schemas/qc-settings";
+import { pool } from "../../server/db/client";
+import { as, makeProjectWithRoles } from "../helpers/api";
+import { buildMooringVersion } from "../helpers/explore";
+import { makeMooringDataset } from "../helpers/pipeline";
+
+/**
+ * Thresholds are settings per deployment with defaults (PRODUCT.md, Science): members read them, contributors and
+ * curators change them, and the next build of a dataset on that deployment uses them (its settings snapshot).
+ */
+let ctx: Awaited<ReturnType<typeof makeProjectWithRoles>>;
+let ids: Awaited<ReturnType<typeof makeMooringDataset>>;
+beforeAll(async () => {
+  ctx = await makeProjectWithRoles();
+  ids = await makeMooringDataset(ctx.projectId);
+});
+const url = () => `/api/deployments/${ids.deploymentId}/qc-settings`;
+
+describe("deployment QC settings", () => {
+  test("with nothing stored, a member reads the defaults", async () => {
+    const res = await as(ctx.users.curator.cookie).get(url());
+    expect(res.status).toBe(200);
+    const s = deploymentQcSettingsSchema.parse(res.body);
+    expect(s.overrides).toEqual({});
+    expect(s.settings).toEqual(defaultQcSettings());
+    expect(s.updatedAt).toBeNull();
+  });
+
+  test("a contributor's overrides are merged over the defaults, and the next build uses them", async () => {
+    const overrides = { variables: { wind_speed: { user: { min: 0, max: 20 }, spike: null } }, timing: { gapFactor: 3 } };
+    const res = await as(ctx.users.contributor.cookie).patch(url()).send({ overrides });
+    expect(res.status).toBe(200);
+    const s = deploymentQcSettingsSchema.parse(res.body);
+    expect(s.overrides).toEqual(overrides);
+    expect(s.settings.variables.wind_speed.user).toEqual({ min: 0, max: 20 });
+    expect(s.settings.variables.wind_speed.spike).toBeNull();
+    expect(s.settings.variables.wind_speed.sensor).toEqual(defaultQcSettings().variables.wind_speed.sensor);
+    expect(s.settings.timing.gapFactor).toBe(3);
+    expect(s.updatedByName).toBe(ctx.users.contributor.name);
+
+    const v = await buildMooringVersion(ids.datasetId, ctx.users.contributor, { start: Date.UTC(2026, 9, 1) / 1000, durationS: 6 * 3600, intervalS: 60 });
+    const run = (await pool.query(`select settings from qc_runs where version_id = $1`, [v.id])).rows[0].settings;
+    expect(run.variables.wind_speed.user).toEqual({ min: 0, max: 20 });
+    expect(run.variables.wind_speed.spike).toBeNull();
+    expect(run.timing.gapFactor).toBe(3);
+    const audit = await pool.query(`select actor_id from audit_log where action = 'deployment.qc_settings' and entity_id = $1`, [ids.deploymentId]);
+    expect(audit.rows.map((r) => r.actor_id)).toContain(ctx.users.contributor.id);
+  });
+
+  test("a misspelt setting is named by its path and nothing is stored", async () => {
+    const before = (await as(ctx.users.curator.cookie).get(url())).body;
+    const res = await as(ctx.users.curator.cookie).patch(url()).send({ overrides: { variables: { wind_sped: { user: { max: 20 } } } } });
+    expect(res.status).toBe(400);
+    expect(res.body.error.details).toEqual({ "overrides.variables.wind_sped": ["Not a QC setting; check the spelling"] });
+    expect((await as(ctx.users.curator.cookie).get(url())).body).toEqual(before);
+  });
+
+  test("a value the settings refuse is named by its path", async () => {
+    const res = await as(ctx.users.curator.cookie).patch(url()).send({ overrides: { variables: { wind_speed: { spike: { suspect: -1, fail: 15 } } } } });
+    expect(res.status).toBe(400);
+    expect(Object.keys(res.body.error.details)).toEqual(["overrides.variables.wind_speed.spike.suspect"]);
+  });
+
+  test("an empty object goes back to the defaults", async () => {
+    const res = await as(ctx.users.curator.cookie).patch(url()).send({ overrides: {} });
+    expect(res.status).toBe(200);
+    const s = deploymentQcSettingsSchema.parse(res.body);
+    expect(s.overrides).toEqual({});
+    expect(s.settings).toEqual(defaultQcSettings());
+  });
+});
