@@ -44,3 +44,37 @@ test("a visitor sees the public catalogue and is sent to sign in for members' pa
   await page.goto("/projects");
   await expect(page).toHaveURL(/sign-in/);
 });
+
+test("a contributor tightens a deployment's wind-speed thresholds, sees a bad value named, and goes back to the defaults", async ({ page }) => {
+  await signIn(page, demo.contributor);
+  await page.getByRole("link", { name: "My projects" }).click();
+  await page.getByRole("link", { name: "Merrow Shelf Observing Programme" }).first().click();
+  await page.getByRole("link", { name: "Merrow North", exact: true }).click();
+  await page.getByRole("button", { name: /^QC thresholds of deployment / }).first().click();
+
+  const suspectAbove = page.getByLabel("Wind speed: suspect above");
+  // The defaults (DOMAIN.md §11 starter ranges): wind speed suspect above 35 m s-1.
+  await expect(suspectAbove).toHaveValue("35");
+  await suspectAbove.fill("28");
+  await page.getByRole("button", { name: "Save thresholds" }).click();
+  await expect(page.getByText(/QC thresholds of “.*” saved/)).toBeVisible();
+  await expect(page.getByRole("row", { name: /Wind speed/ })).toContainText("changed from the defaults");
+  await shot(page, "deployment-qc-thresholds");
+
+  // Stored: after a reload the editor opens with the new value.
+  await page.reload();
+  await page.getByRole("button", { name: /^QC thresholds of deployment / }).first().click();
+  await expect(page.getByLabel("Wind speed: suspect above")).toHaveValue("28");
+
+  // A value that is not a number is named with its variable, and nothing is saved.
+  await page.getByLabel("Wind speed: spike fail at").fill("lots");
+  await page.getByRole("button", { name: "Save thresholds" }).click();
+  await expect(page.getByText("Nothing was saved. Check:")).toBeVisible();
+  await expect(page.getByText(/Wind speed, spike fail:/)).toBeVisible();
+  await shot(page, "deployment-qc-thresholds-error");
+
+  await page.getByRole("button", { name: "Back to defaults" }).click();
+  await expect(page.getByText(/are back to the defaults/)).toBeVisible();
+  await expect(page.getByLabel("Wind speed: suspect above")).toHaveValue("35");
+  await expect(page.getByText("Tauline’s defaults: nothing changed for this deployment yet.")).toBeVisible();
+});

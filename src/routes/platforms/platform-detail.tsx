@@ -19,8 +19,9 @@ import { EditPlatformForm } from "@/features/platforms/components/platform-form"
 import { deploymentsQueryOptions, useDeployments } from "@/features/deployments/api/get-deployments";
 import { DeploymentForm } from "@/features/deployments/components/deployment-form";
 import { DeploymentTable } from "@/features/deployments/components/deployment-table";
+import { QcThresholdsEditor } from "@/features/deployments/components/qc-thresholds-editor";
 
-type Editing = { mode: "create" } | { mode: "edit"; deployment: Deployment } | null;
+type Editing = { mode: "create" } | { mode: "edit"; deployment: Deployment } | { mode: "thresholds"; deployment: Deployment } | null;
 
 export function Component() {
   const { platformId = "" } = useParams();
@@ -75,7 +76,12 @@ export function Component() {
         description="Each period at sea: where, how deep, and where the sensors sit. Times are UTC."
         action={canEdit && editing === null ? <Button onClick={() => setEditing({ mode: "create" })}>New deployment</Button> : null}
       >
-        {editing ? (
+        {editing?.mode === "thresholds" ? (
+          <Panel>
+            <h3 className="mb-3 font-semibold">QC thresholds of “{editing.deployment.name}”</h3>
+            <QcThresholdsEditor deploymentId={editing.deployment.id} deploymentName={editing.deployment.name} canEdit={canEdit} onClose={() => setEditing(null)} />
+          </Panel>
+        ) : editing ? (
           <Panel>
             <h3 className="mb-3 font-semibold">{editing.mode === "create" ? "New deployment" : `Edit deployment “${editing.deployment.name}”`}</h3>
             <DeploymentForm
@@ -102,7 +108,11 @@ export function Component() {
               : "Contributors of this project record deployments here."}
           </EmptyState>
         ) : (
-          <DeploymentTable items={deployments.data.items} onEdit={canEdit ? (d) => setEditing({ mode: "edit", deployment: d }) : undefined} />
+          <DeploymentTable
+            items={deployments.data.items}
+            onEdit={canEdit ? (d) => setEditing({ mode: "edit", deployment: d }) : undefined}
+            onThresholds={(d) => setEditing({ mode: "thresholds", deployment: d })}
+          />
         )}
       </Section>
     </>

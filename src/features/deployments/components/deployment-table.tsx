@@ -4,7 +4,7 @@ import { Button } from "@/components/ui/button";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
 import { UtcTime } from "@/components/ui/utc-time";
 
-export function DeploymentTable({ items, onEdit }: { items: Deployment[]; onEdit?: (d: Deployment) => void }) {
+export function DeploymentTable({ items, onEdit, onThresholds }: { items: Deployment[]; onEdit?: (d: Deployment) => void; onThresholds?: (d: Deployment) => void }) {
   return (
     <Table caption="Deployments">
       <thead>
@@ -26,11 +26,18 @@ export function DeploymentTable({ items, onEdit }: { items: Deployment[]; onEdit
             <Td>
               <div className="flex items-start justify-between gap-2">
                 <span className="whitespace-nowrap font-semibold">{d.name}</span>
-                {onEdit ? (
-                  <Button size="sm" variant="secondary" onClick={() => onEdit(d)} aria-label={`Edit deployment ${d.name}`}>
-                    Edit
-                  </Button>
-                ) : null}
+                <span className="flex gap-1">
+                  {onEdit ? (
+                    <Button size="sm" variant="secondary" onClick={() => onEdit(d)} aria-label={`Edit deployment ${d.name}`}>
+                      Edit
+                    </Button>
+                  ) : null}
+                  {onThresholds ? (
+                    <Button size="sm" variant="secondary" onClick={() => onThresholds(d)} aria-label={`QC thresholds of deployment ${d.name}`}>
+                      QC thresholds
+                    </Button>
+                  ) : null}
+                </span>
               </div>
               {d.notes ? <div className="line-clamp-1 max-w-xs text-sm text-muted">{d.notes}</div> : null}
             </Td>

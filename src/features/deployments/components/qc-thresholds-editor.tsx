@@ -1,0 +1,252 @@
+import { useState, type FormEvent } from "react";
+import type { DeploymentQcSettings, VariableQc } from "@shared/schemas/qc-settings";
+import { vocabulary, type MeasuredVariable } from "@shared/vocabulary";
+import { ApiError, getErrorMessage } from "@/lib/api-client";
+import { showToast } from "@/lib/toast";
+import { Alert } from "@/components/ui/alert";
+import { Button } from "@/components/ui/button";
+import { Loading } from "@/components/ui/loading";
+import { Table, Td, Th, Tr } from "@/components/ui/table";
+import { UtcTime } from "@/components/ui/utc-time";
+import { useDeploymentQcSettings, useUpdateDeploymentQcSettings } from "../api/qc-settings";
+
+/**
+ * The QC thresholds of one deployment, per variable, in canonical units: gross range (sensor → fail, user →
+ * suspect), spike, rate of change and flat line. An empty pair switches that test off; only what differs from
+ * Tauline's defaults is stored, so later changes to an untouched default still apply. Builds already made keep the
+ * settings they used; the next build of a dataset on this deployment uses these.
+ */
+
+/** The inputs of one variable's row, as typed. */
+const FIELDS = ["sensorMin", "sensorMax", "userMin", "userMax", "spikeSuspect", "spikeFail", "rocN", "rocWindowH", "flatEpsilon", "flatSuspectH", "flatFailH"] as const;
+type Field = (typeof FIELDS)[number];
+type Row = Record<Field, string>;
+type Tests = Pick<VariableQc, "sensor" | "user" | "spike" | "rateOfChange" | "flatLine">;
+
+/** Twelve significant digits: −60 °C in kelvin reads 213.15, not 213.14999999999998. */
+const text = (x: number | null | undefined) => (x === null || x === undefined ? "" : String(Number(x.toPrecision(12))));
+const hours = (s: number | null | undefined) => (s === null || s === undefined ? "" : text(s / 3600));
+
+/** The inputs behind each test, to tell an untouched test (left to the defaults) from an edited one. */
+const TEST_FIELDS: Record<keyof Tests, Field[]> = {
+  sensor: ["sensorMin", "sensorMax"],
+  user: ["userMin", "userMax"],
+  spike: ["spikeSuspect", "spikeFail"],
+  rateOfChange: ["rocN", "rocWindowH"],
+  flatLine: ["flatEpsilon", "flatSuspectH", "flatFailH"],
+};
+
+function rowOf(q: VariableQc): Row {
+  return {
+    sensorMin: text(q.sensor?.min),
+    sensorMax: text(q.sensor?.max),
+    userMin: text(q.user?.min),
+    userMax: text(q.user?.max),
+    spikeSuspect: text(q.spike?.suspect),
+    spikeFail: text(q.spike?.fail),
+    rocN: text(q.rateOfChange?.n),
+    rocWindowH: hours(q.rateOfChange?.windowS),
+    flatEpsilon: text(q.flatLine?.epsilon),
+    flatSuspectH: hours(q.flatLine?.suspectAfterS),
+    flatFailH: hours(q.flatLine?.failAfterS),
+  };
+}
+
+/** A typed number, null when blank; text that is not a number is sent as is so the server names it. */
+const num = (s: string): number | string | null => (s.trim() === "" ? null : Number.isFinite(Number(s)) ? Number(s) : s.trim());
+const blank = (...xs: string[]) => xs.every((x) => x.trim() === "");
+const seconds = (h: string) => {
+  const x = num(h);
+  return typeof x === "number" ? x * 3600 : x;
+};
+
+/** The tests a row describes; `current` supplies what the table does not show (minimum counts). */
+function testsOf(r: Row, current: VariableQc): Tests {
+  return {
+    sensor: blank(r.sensorMin, r.sensorMax) ? null : ({ min: num(r.sensorMin), max: num(r.sensorMax) } as Tests["sensor"]),
+    user: blank(r.userMin, r.userMax) ? null : ({ min: num(r.userMin), max: num(r.userMax) } as Tests["user"]),
+    spike: blank(r.spikeSuspect, r.spikeFail) ? null : ({ suspect: num(r.spikeSuspect), fail: num(r.spikeFail) } as Tests["spike"]),
+    rateOfChange: blank(r.rocN, r.rocWindowH)
+      ? null
+      : ({ n: num(r.rocN), windowS: seconds(r.rocWindowH), minCount: current.rateOfChange?.minCount ?? 3 } as Tests["rateOfChange"]),
+    flatLine: blank(r.flatEpsilon, r.flatSuspectH, r.flatFailH)
+      ? null
+      : ({
+          epsilon: num(r.flatEpsilon),
+          suspectCount: current.flatLine?.suspectCount ?? 3,
+          failCount: current.flatLine?.failCount ?? 5,
+          suspectAfterS: blank(r.flatSuspectH) ? null : seconds(r.flatSuspectH),
+          failAfterS: blank(r.flatFailH) ? null : seconds(r.flatFailH),
+        } as Tests["flatLine"]),
+  };
+}
+
+/** The stored overrides with each shown test set where it differs from the default and removed where it does not. */
+export function overridesFrom(data: DeploymentQcSettings, rows: Record<string, Row>): Record<string, unknown> {
+  const out: Record<string, unknown> = structuredClone(data.overrides);
+  const vars: Record<string, Record<string, unknown>> = { ...((out.variables as Record<string, Record<string, unknown>> | undefined) ?? {}) };
+  for (const [v, r] of Object.entries(rows)) {
+    const key = v as MeasuredVariable;
+    const tests = testsOf(r, data.settings.variables[key]);
+    const defaults = rowOf(data.defaults.variables[key]);
+    const o: Record<string, unknown> = { ...(vars[v] ?? {}) };
+    for (const [t, fields] of Object.entries(TEST_FIELDS)) {
+      // Compared as shown, so a default that displays rounded is not taken for an edit.
+      if (fields.every((f) => r[f].trim() === defaults[f])) delete o[t];
+      else o[t] = tests[t as keyof Tests];
+    }
+    if (Object.keys(o).length) vars[v] = o;
+    else delete vars[v];
+  }
+  if (Object.keys(vars).length) out.variables = vars;
+  else delete out.variables;
+  return out;
+}
+
+/** Variables with at least one test by default (positions are checked by the location test, not here). */
+const shown = (d: DeploymentQcSettings) =>
+  (Object.keys(d.defaults.variables) as MeasuredVariable[]).filter((v) => {
+    const q = d.defaults.variables[v];
+    return q.sensor || q.user || q.spike || q.rateOfChange || q.flatLine;
+  });
+
+/** "overrides.variables.wind_speed.spike.fail" → "Wind speed, spike: …" */
+function readableProblems(e: unknown): string[] {
+  if (!(e instanceof ApiError) || !Object.keys(e.fields).length) return [getErrorMessage(e)];
+  return Object.entries(e.fields).map(([path, msgs]) => {
+    const parts = path.replace(/^overrides\./, "").split(".");
+    const v = parts[0] === "variables" ? vocabulary[parts[1] as MeasuredVariable] : undefined;
+    const where = v ? `${v.label}, ${parts.slice(2).join(" ")}` : parts.join(" ");
+    return `${where}: ${msgs.join("; ")}`;
+  });
+}
+
+export function QcThresholdsEditor({ deploymentId, deploymentName, canEdit, onClose }: { deploymentId: string; deploymentName: string; canEdit: boolean; onClose: () => void }) {
+  const query = useDeploymentQcSettings(deploymentId);
+  if (query.isPending) return <Loading label="Loading the QC thresholds…" />;
+  if (query.error) return <Alert tone="attention">{getErrorMessage(query.error)}</Alert>;
+  return <Editor key={query.data.updatedAt ?? "defaults"} data={query.data} deploymentName={deploymentName} canEdit={canEdit} onClose={onClose} />;
+}
+
+function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQcSettings; deploymentName: string; canEdit: boolean; onClose: () => void }) {
+  const variables = shown(data);
+  const [rows, setRows] = useState<Record<string, Row>>(() => Object.fromEntries(variables.map((v) => [v, rowOf(data.settings.variables[v])])));
+  const [problems, setProblems] = useState<string[]>([]);
+  const save = useUpdateDeploymentQcSettings(data.deploymentId);
+  const changed = variables.filter((v) => JSON.stringify(rowOf(data.defaults.variables[v])) !== JSON.stringify(rows[v]));
+
+  const submit = (overrides: Record<string, unknown>, done: string) => {
+    setProblems([]);
+    save.mutate(overrides, {
+      onSuccess: () => showToast(done, "success"),
+      onError: (e) => setProblems(readableProblems(e)),
+    });
+  };
+  const onSubmit = (e: FormEvent) => {
+    e.preventDefault();
+    submit(overridesFrom(data, rows), `QC thresholds of “${deploymentName}” saved. The next build uses them.`);
+  };
+  const cell = (v: string, f: Field, label: string) => (
+    <input
+      aria-label={`${vocabulary[v as MeasuredVariable].label}: ${label}`}
+      className="num w-[4.25rem] rounded border border-field bg-surface px-1 py-1 text-right text-xs disabled:border-transparent disabled:bg-transparent"
+      inputMode="decimal"
+      disabled={!canEdit}
+      placeholder="off"
+      value={rows[v]![f]}
+      onChange={(e) => setRows((r) => ({ ...r, [v]: { ...r[v]!, [f]: e.target.value } }))}
+    />
+  );
+  const pair = (v: string, a: Field, b: Field, la: string, lb: string) => (
+    <span className="inline-flex items-center gap-1">
+      {cell(v, a, la)}
+      <span aria-hidden className="text-muted">
+        –
+      </span>
+      {cell(v, b, lb)}
+    </span>
+  );
+
+  return (
+    <form onSubmit={onSubmit} className="flex flex-col gap-3">
+      <p className="max-w-4xl text-sm text-muted">
+        Values are in each variable’s canonical unit (temperatures in kelvin, pressures in pascal, humidity as a fraction; rate-of-change windows and
+        flat-line durations in hours). A blank pair switches that test off; only what differs from Tauline’s defaults is stored. Versions already built keep
+        the settings they used; the next build of a dataset on this deployment uses these. The starting values are common practice for moored sensors:
+        tune them to the site and its instruments.
+      </p>
+      <div className="overflow-x-auto">
+        <Table caption={`QC thresholds of ${deploymentName}`}>
+          <thead>
+            <tr>
+              <Th>Variable</Th>
+              <Th unit="min – max">Fail outside</Th>
+              <Th unit="min – max">Suspect outside</Th>
+              <Th unit="suspect – fail">Spike</Th>
+              <Th unit="n·σ – window h">Rate of change</Th>
+              <Th unit="within ε; suspect – fail h">Flat line</Th>
+            </tr>
+          </thead>
+          <tbody>
+            {variables.map((v) => (
+              <Tr key={v}>
+                <Td>
+                  <div className="whitespace-nowrap font-semibold">{vocabulary[v].label}</div>
+                  <div className="text-sm text-muted">
+                    {vocabulary[v].canonicalUnit}
+                    {changed.includes(v) ? " · changed from the defaults" : ""}
+                  </div>
+                </Td>
+                <Td>{pair(v, "sensorMin", "sensorMax", "fail below", "fail above")}</Td>
+                <Td>{pair(v, "userMin", "userMax", "suspect below", "suspect above")}</Td>
+                <Td>{pair(v, "spikeSuspect", "spikeFail", "spike suspect at", "spike fail at")}</Td>
+                <Td>{pair(v, "rocN", "rocWindowH", "rate of change N", "rate of change window in hours")}</Td>
+                <Td>
+                  <span className="inline-flex items-center gap-1.5">
+                    {cell(v, "flatEpsilon", "flat line epsilon")}
+                    {pair(v, "flatSuspectH", "flatFailH", "flat line suspect after hours", "flat line fail after hours")}
+                  </span>
+                </Td>
+              </Tr>
+            ))}
+          </tbody>
+        </Table>
+      </div>
+      {problems.length ? (
+        <Alert tone="attention">
+          <p className="font-semibold">Nothing was saved. Check:</p>
+          <ul className="list-disc pl-5">
+            {problems.map((p) => (
+              <li key={p}>{p}</li>
+            ))}
+          </ul>
+        </Alert>
+      ) : null}
+      <div className="flex flex-wrap items-center gap-2">
+        {canEdit ? (
+          <>
+            <Button type="submit" busy={save.isPending} disabled={save.isPending}>
+              Save thresholds
+            </Button>
+            <Button variant="secondary" disabled={save.isPending} onClick={() => submit({}, `QC thresholds of “${deploymentName}” are back to the defaults.`)}>
+              Back to defaults
+            </Button>
+          </>
+        ) : null}
+        <Button variant="secondary" onClick={onClose}>
+          Close
+        </Button>
+        <span className="text-sm text-muted">
+          {data.updatedAt ? (
+            <>
+              Last changed <UtcTime iso={data.updatedAt} />
+              {data.updatedByName ? ` by ${data.updatedByName}` : ""}.
+            </>
+          ) : (
+            "Tauline’s defaults: nothing changed for this deployment yet."
+          )}
+        </span>
+      </div>
+    </form>
+  );
+}
