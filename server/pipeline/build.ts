@@ -78,6 +78,8 @@ interface Loaded {
   storageKey: string;
   uploadName: string;
   ctx: DeploymentContext;
+  /** The deployment's watch-circle radius, m (the location test's default for a mooring). */
+  watchCircleM: number | undefined;
   cancelRequested: boolean;
   attempt: number;
 }
@@ -86,7 +88,7 @@ async function load(client: pg.PoolClient, versionId: string): Promise<Loaded | 
   const { rows } = await client.query(
     `select v.id, v.dataset_id, v.number, v.state, v.created_by, r.mode, r.column_map, r.settings_overrides, r.cancel_requested, r.attempt,
             u.storage_key, u.original_name, q.settings as deployment_settings,
-            dp.latitude, dp.longitude, dp.anemometer_height_m, dp.current_meter_depth_m, dp.coastline_offshore_bearing_deg, p.kind
+            dp.latitude, dp.longitude, dp.anemometer_height_m, dp.current_meter_depth_m, dp.coastline_offshore_bearing_deg, dp.watch_circle_radius_m, p.kind
        from versions v
        join qc_runs r on r.version_id = v.id
        join uploads u on u.id = v.upload_id
@@ -114,6 +116,7 @@ async function load(client: pg.PoolClient, versionId: string): Promise<Loaded | 
     uploadName: r.original_name,
     cancelRequested: r.cancel_requested,
     attempt: r.attempt,
+    watchCircleM: num(r.watch_circle_radius_m),
     ctx: {
       platformKind: r.kind ?? "drifter",
       latitude: num(r.latitude),
@@ -224,6 +227,10 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
     const resolved = resolveQcSettings(deepMerge(L.deploymentOverrides, L.overrides) as never);
     if (!resolved.success) throw new InputError(`The QC settings are not valid: ${issueText(resolved.error.issues)}`);
     const settings = resolved.data;
+    // A mooring's watch circle is recorded on its deployment; unless the settings give a radius of their own, the
+    // location test uses that one (and the settings snapshot records it).
+    if (settings.location.watchCircleM === null && L.ctx.platformKind === "mooring" && L.watchCircleM !== undefined && L.watchCircleM > 0)
+      settings.location.watchCircleM = L.watchCircleM;
 
     // BUILD_PARSE_THREAD=1 parses on a worker thread beside the engine and the COPY: a gain with cores to spare; on
     // two cores it competes with PostgreSQL's COPY and measured no better (commit body), so it is off by default.
