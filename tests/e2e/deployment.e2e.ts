@@ -73,8 +73,26 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
   await expect(page.getByText(/Wind speed, spike fail:/)).toBeVisible();
   await shot(page, "deployment-qc-thresholds-error");
 
+  // Deployment-wide choices: the drag law (recorded in provenance) and air density from the measurements.
+  await page.getByLabel("Wind speed: spike fail at").fill("15");
+  await page.getByLabel("Drag law").selectOption("LY04");
+  await page.getByLabel("Air density", { exact: true }).selectOption("ideal_gas");
+  await page.getByLabel("Seawater density (kg m-3)").fill("-3");
+  await page.getByRole("button", { name: "Save thresholds" }).click();
+  await expect(page.getByText(/Seawater density:/)).toBeVisible();
+  await page.getByLabel("Seawater density (kg m-3)").fill("1026");
+  await page.getByRole("button", { name: "Save thresholds" }).click();
+  await expect(page.getByText(/QC thresholds of “.*” saved/).last()).toBeVisible();
+  await page.reload();
+  await page.getByRole("button", { name: /^QC thresholds of deployment / }).first().click();
+  await expect(page.getByLabel("Drag law")).toHaveValue("LY04");
+  await expect(page.getByLabel("Air density", { exact: true })).toHaveValue("ideal_gas");
+  await expect(page.getByLabel("Seawater density (kg m-3)")).toHaveValue("1026");
+  await shot(page, "deployment-qc-site-settings");
+
   await page.getByRole("button", { name: "Back to defaults" }).click();
   await expect(page.getByText(/are back to the defaults/)).toBeVisible();
   await expect(page.getByLabel("Wind speed: suspect above")).toHaveValue("35");
+  await expect(page.getByLabel("Drag law")).toHaveValue("LP81");
   await expect(page.getByText("Tauline’s defaults: nothing changed for this deployment yet.")).toBeVisible();
 });

@@ -1,10 +1,12 @@
 import { useState, type FormEvent } from "react";
 import type { DeploymentQcSettings, VariableQc } from "@shared/schemas/qc-settings";
 import { vocabulary, type MeasuredVariable } from "@shared/vocabulary";
+import { dragLaws, dragLawSources } from "@shared/compute/physics";
 import { ApiError, getErrorMessage } from "@/lib/api-client";
 import { showToast } from "@/lib/toast";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
+import { SelectField, TextField } from "@/components/ui/field";
 import { Loading } from "@/components/ui/loading";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
 import { UtcTime } from "@/components/ui/utc-time";
@@ -103,6 +105,45 @@ export function overridesFrom(data: DeploymentQcSettings, rows: Record<string, R
   return out;
 }
 
+/** Deployment-wide settings shown above the table, as typed. */
+type Site = { intervalS: string; gapFactor: string; gapFlag: string; dragLaw: string; airMethod: string; airValue: string; seawaterDensity: string };
+
+function siteOf(q: DeploymentQcSettings["settings"]): Site {
+  const air = q.diagnostics.airDensity;
+  return {
+    intervalS: text(q.timing.expectedIntervalS),
+    gapFactor: text(q.timing.gapFactor),
+    gapFlag: String(q.timing.gapFlag),
+    dragLaw: q.diagnostics.dragLaw,
+    airMethod: air.method,
+    airValue: air.method === "fixed" ? text(air.value) : "",
+    seawaterDensity: text(q.diagnostics.seawaterDensity),
+  };
+}
+
+/** Sets `out[group][key]` to `value` when the shown text differs from the default's, and removes it when not. */
+function setOrClear(out: Record<string, unknown>, group: string, key: string, changed: boolean, value: unknown) {
+  const g: Record<string, unknown> = { ...((out[group] as Record<string, unknown> | undefined) ?? {}) };
+  if (changed) g[key] = value;
+  else delete g[key];
+  if (Object.keys(g).length) out[group] = g;
+  else delete out[group];
+}
+
+/** The overrides with the deployment-wide settings folded in (only where they differ from the defaults). */
+export function withSite(overrides: Record<string, unknown>, data: DeploymentQcSettings, site: Site): Record<string, unknown> {
+  const out = structuredClone(overrides);
+  const d = siteOf(data.defaults);
+  setOrClear(out, "timing", "expectedIntervalS", site.intervalS.trim() !== d.intervalS, num(site.intervalS));
+  setOrClear(out, "timing", "gapFactor", site.gapFactor.trim() !== d.gapFactor, num(site.gapFactor));
+  setOrClear(out, "timing", "gapFlag", site.gapFlag !== d.gapFlag, Number(site.gapFlag));
+  setOrClear(out, "diagnostics", "dragLaw", site.dragLaw !== d.dragLaw, site.dragLaw);
+  const airChanged = site.airMethod !== d.airMethod || (site.airMethod === "fixed" && site.airValue.trim() !== d.airValue);
+  setOrClear(out, "diagnostics", "airDensity", airChanged, site.airMethod === "fixed" ? { method: "fixed", value: num(site.airValue) } : { method: "ideal_gas" });
+  setOrClear(out, "diagnostics", "seawaterDensity", site.seawaterDensity.trim() !== d.seawaterDensity, num(site.seawaterDensity));
+  return out;
+}
+
 /** Variables with at least one test by default (positions are checked by the location test, not here). */
 const shown = (d: DeploymentQcSettings) =>
   (Object.keys(d.defaults.variables) as MeasuredVariable[]).filter((v) => {
@@ -110,13 +151,20 @@ const shown = (d: DeploymentQcSettings) =>
     return q.sensor || q.user || q.spike || q.rateOfChange || q.flatLine;
   });
 
-/** "overrides.variables.wind_speed.spike.fail" → "Wind speed, spike: …" */
+const SITE_LABELS: Record<string, string> = {
+  "timing.expectedIntervalS": "Sampling interval",
+  "timing.gapFactor": "Gap after",
+  "diagnostics.airDensity.value": "Air density",
+  "diagnostics.seawaterDensity": "Seawater density",
+};
+
+/** "overrides.variables.wind_speed.spike.fail" → "Wind speed, spike fail: …" */
 function readableProblems(e: unknown): string[] {
   if (!(e instanceof ApiError) || !Object.keys(e.fields).length) return [getErrorMessage(e)];
   return Object.entries(e.fields).map(([path, msgs]) => {
     const parts = path.replace(/^overrides\./, "").split(".");
     const v = parts[0] === "variables" ? vocabulary[parts[1] as MeasuredVariable] : undefined;
-    const where = v ? `${v.label}, ${parts.slice(2).join(" ")}` : parts.join(" ");
+    const where = v ? `${v.label}, ${parts.slice(2).join(" ")}` : (SITE_LABELS[parts.join(".")] ?? parts.join(" "));
     return `${where}: ${msgs.join("; ")}`;
   });
 }
@@ -131,6 +179,7 @@ export function QcThresholdsEditor({ deploymentId, deploymentName, canEdit, onCl
 function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQcSettings; deploymentName: string; canEdit: boolean; onClose: () => void }) {
   const variables = shown(data);
   const [rows, setRows] = useState<Record<string, Row>>(() => Object.fromEntries(variables.map((v) => [v, rowOf(data.settings.variables[v])])));
+  const [site, setSite] = useState<Site>(() => siteOf(data.settings));
   const [problems, setProblems] = useState<string[]>([]);
   const save = useUpdateDeploymentQcSettings(data.deploymentId);
   const changed = variables.filter((v) => JSON.stringify(rowOf(data.defaults.variables[v])) !== JSON.stringify(rows[v]));
@@ -144,7 +193,7 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
   };
   const onSubmit = (e: FormEvent) => {
     e.preventDefault();
-    submit(overridesFrom(data, rows), `QC thresholds of “${deploymentName}” saved. The next build uses them.`);
+    submit(withSite(overridesFrom(data, rows), data, site), `QC thresholds of “${deploymentName}” saved. The next build uses them.`);
   };
   const cell = (v: string, f: Field, label: string) => (
     <input
@@ -175,6 +224,42 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
         the settings they used; the next build of a dataset on this deployment uses these. The starting values are common practice for moored sensors:
         tune them to the site and its instruments.
       </p>
+      <fieldset className="grid grid-cols-2 gap-3 md:grid-cols-4 xl:grid-cols-7" disabled={!canEdit}>
+        <legend className="sr-only">Sampling, gaps and diagnostics</legend>
+        <TextField label="Sampling interval (s)" hint="Blank: taken from the file" inputMode="decimal" value={site.intervalS} onChange={(e) => setSite({ ...site, intervalS: e.target.value })} />
+        <TextField label="Gap after (× interval)" inputMode="decimal" value={site.gapFactor} onChange={(e) => setSite({ ...site, gapFactor: e.target.value })} />
+        <SelectField
+          label="A gap is flagged"
+          options={[
+            { value: "4", label: "fail (4)" },
+            { value: "3", label: "suspect (3)" },
+          ]}
+          value={site.gapFlag}
+          onChange={(e) => setSite({ ...site, gapFlag: e.target.value })}
+        />
+        <SelectField
+          label="Drag law"
+          hint={dragLawSources[site.dragLaw as keyof typeof dragLawSources]?.split(";")[0]}
+          options={dragLaws.map((l) => ({ value: l, label: l }))}
+          value={site.dragLaw}
+          onChange={(e) => setSite({ ...site, dragLaw: e.target.value })}
+        />
+        <SelectField
+          label="Air density"
+          options={[
+            { value: "fixed", label: "fixed value" },
+            { value: "ideal_gas", label: "from p, T and RH" },
+          ]}
+          value={site.airMethod}
+          onChange={(e) => setSite({ ...site, airMethod: e.target.value })}
+        />
+        {site.airMethod === "fixed" ? (
+          <TextField label="Air density (kg m-3)" inputMode="decimal" value={site.airValue} onChange={(e) => setSite({ ...site, airValue: e.target.value })} />
+        ) : (
+          <div />
+        )}
+        <TextField label="Seawater density (kg m-3)" inputMode="decimal" value={site.seawaterDensity} onChange={(e) => setSite({ ...site, seawaterDensity: e.target.value })} />
+      </fieldset>
       <div className="overflow-x-auto">
         <Table caption={`QC thresholds of ${deploymentName}`}>
           <thead>
