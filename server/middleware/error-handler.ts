@@ -1,18 +1,8 @@
 import type { ErrorRequestHandler, RequestHandler } from "express";
 import { ZodError } from "zod";
 import type { ApiErrorBody } from "@shared/errors";
-import { AppError } from "../lib/errors";
+import { AppError, zodDetails } from "../lib/errors";
 import { logger } from "../lib/logger";
-
-/** Turns a ZodError into field path → messages, with "body" for errors at the root. */
-export function zodDetails(err: ZodError): Record<string, string[]> {
-  const details: Record<string, string[]> = {};
-  for (const issue of err.issues) {
-    const key = issue.path.length ? issue.path.join(".") : "body";
-    (details[key] ??= []).push(issue.message);
-  }
-  return details;
-}
 
 const PG_UNAVAILABLE = new Set(["ECONNREFUSED", "ECONNRESET", "57P01", "57P02", "57P03", "08006", "08001", "08003"]);
 

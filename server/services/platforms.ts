@@ -17,8 +17,7 @@ import {
 } from "@shared/schemas/qc-settings";
 import { db } from "../db/client";
 import { deploymentQcSettings, deployments, platforms, user as users } from "../db/schema";
-import { AppError, conflict, notFound } from "../lib/errors";
-import { zodDetails } from "../middleware/error-handler";
+import { AppError, conflict, notFound, zodDetails } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
 import { assertProjectAccess } from "./access";
 import { writeAudit } from "./audit";

@@ -1,10 +1,10 @@
 import { beforeAll, describe, expect, test } from "vitest";
 import { defaultQcSettings, deploymentQcSettingsSchema } from "@shared/schemas/qc-settings";
 import { pool } from "../../server/db/client";
-import { buildVersion } from "../../server/pipeline/build";
 import { as, makeProjectWithRoles } from "../helpers/api";
-import { buildMooringVersion } from "../helpers/explore";
-import { makeMooringDataset, storeUpload } from "../helpers/pipeline";
+import { demoMooringColumnMap } from "@shared/demo/generate";
+import { buildMooringVersion, buildVersionFromText } from "../helpers/explore";
+import { makeMooringDataset } from "../helpers/pipeline";
 
 /**
  * Thresholds are settings per deployment with defaults (PRODUCT.md, Science): members read them, contributors and
@@ -78,24 +78,18 @@ describe("the watch circle recorded on a mooring's deployment", () => {
     // 0.002° of latitude is ~222 m and 0.01° ~1,112 m from the nominal position (1° of latitude ≈ 111.2 km on
     // the sphere of radius 6,371 km; common practice).
     const text = ["time,lat,lon,wspd", "2026-10-01T00:00:00Z,41.25,-27.5,5", "2026-10-01T00:10:00Z,41.252,-27.5,5", "2026-10-01T00:20:00Z,41.26,-27.5,5", "2026-10-01T00:30:00Z,41.25,-27.5,5"].join("\n");
-    const uploadId = await storeUpload(datasetId, ctx.users.contributor.id, `${text}\n`);
-    const n = (await pool.query(`select coalesce(max(number), 0)::int + 1 as n from versions where dataset_id = $1`, [datasetId])).rows[0].n;
-    const v = await pool.query(`insert into versions (dataset_id, number, state, upload_id, created_by) values ($1, $2, 'processing', $3, $4) returning id`, [datasetId, n, uploadId, ctx.users.contributor.id]);
+    // The demo's dialect and time column, with positions and wind speed only.
     const map = {
-      version: 1,
-      delimiter: ",",
-      headerRow: 1,
-      time: { columns: ["time"], format: "iso8601", zone: null },
+      ...demoMooringColumnMap(),
       columns: [
         { column: "lat", variable: "latitude", unit: "degree_north" },
         { column: "lon", variable: "longitude", unit: "degree_east" },
         { column: "wspd", variable: "wind_speed", unit: "m s-1" },
       ],
     };
-    await pool.query(`insert into qc_runs (version_id, mode, column_map, settings_overrides) values ($1, 'replace', $2, $3)`, [v.rows[0].id, JSON.stringify(map), JSON.stringify(overrides)]);
-    expect(await buildVersion(v.rows[0].id)).toBe("built");
+    const v = await buildVersionFromText(datasetId, ctx.users.contributor, `${text}\n`, { map, overrides });
     const flags = await pool.query(`select latitude_qc from records where dataset_id = $1 and valid_to is null order by time`, [datasetId]);
-    const run = await pool.query(`select settings from qc_runs where version_id = $1`, [v.rows[0].id]);
+    const run = await pool.query(`select settings from qc_runs where version_id = $1`, [v.id]);
     return { flags: flags.rows.map((r) => r.latitude_qc), radius: run.rows[0].settings.location.watchCircleM };
   }
 

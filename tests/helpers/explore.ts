@@ -4,11 +4,16 @@ import { as, type TestUser } from "./api";
 import { mooringMap, mooringText, storeUpload } from "./pipeline";
 
 /**
- * Builds a version of a dataset through the pipeline's own function (no worker): the version row and its QC run
- * as POST /api/datasets/:id/versions leaves them, then `buildVersion`. Returns the version's id and number.
+ * Builds a version of a dataset from a file's text through the pipeline's own function (no worker): the version
+ * row and its QC run as POST /api/datasets/:id/versions leaves them, then `buildVersion`. Returns its id and number.
  */
-export async function buildMooringVersion(datasetId: string, uploader: TestUser, opts: { start: number; durationS: number; intervalS: number; mode?: "replace" | "append"; seed?: number }) {
-  const uploadId = await storeUpload(datasetId, uploader.id, mooringText({ start: opts.start, durationS: opts.durationS, intervalS: opts.intervalS, ...(opts.seed ? { seed: opts.seed } : {}) }));
+export async function buildVersionFromText(
+  datasetId: string,
+  uploader: TestUser,
+  text: string,
+  opts: { map?: unknown; mode?: "replace" | "append"; overrides?: object } = {},
+) {
+  const uploadId = await storeUpload(datasetId, uploader.id, text);
   const mode = opts.mode ?? "replace";
   const head = await pool.query(`select id from versions where dataset_id = $1 and state not in ('failed', 'draft') order by number desc limit 1`, [datasetId]);
   const n = await pool.query(`select coalesce(max(number), 0)::int + 1 as n from versions where dataset_id = $1`, [datasetId]);
@@ -17,10 +22,21 @@ export async function buildMooringVersion(datasetId: string, uploader: TestUser,
     [datasetId, n.rows[0].n, mode === "append" ? head.rows[0].id : null, uploadId, uploader.id],
   );
   const id: string = v.rows[0].id;
-  await pool.query(`insert into qc_runs (version_id, mode, column_map, settings_overrides) values ($1, $2, $3, '{}')`, [id, mode, JSON.stringify(mooringMap())]);
+  await pool.query(`insert into qc_runs (version_id, mode, column_map, settings_overrides) values ($1, $2, $3, $4)`, [
+    id,
+    mode,
+    JSON.stringify(opts.map ?? mooringMap()),
+    JSON.stringify(opts.overrides ?? {}),
+  ]);
   const outcome = await buildVersion(id);
   if (outcome !== "built") throw new Error(`build ${outcome}: ${JSON.stringify((await pool.query(`select error from qc_runs where version_id = $1`, [id])).rows[0])}`);
   return { id, number: v.rows[0].number as number };
+}
+
+/** A generated mooring series (shared/demo) built as a version of the dataset; see `buildVersionFromText`. */
+export function buildMooringVersion(datasetId: string, uploader: TestUser, opts: { start: number; durationS: number; intervalS: number; mode?: "replace" | "append"; seed?: number }) {
+  const text = mooringText({ start: opts.start, durationS: opts.durationS, intervalS: opts.intervalS, ...(opts.seed ? { seed: opts.seed } : {}) });
+  return buildVersionFromText(datasetId, uploader, text, { mode: opts.mode });
 }
 
 /** Submits (uploader), approves and releases (curator) a ready version through the API. */

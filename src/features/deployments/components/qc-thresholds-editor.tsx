@@ -84,7 +84,7 @@ function testsOf(r: Row, current: VariableQc): Tests {
 }
 
 /** The stored overrides with each shown test set where it differs from the default and removed where it does not. */
-export function overridesFrom(data: DeploymentQcSettings, rows: Record<string, Row>): Record<string, unknown> {
+function overridesFrom(data: DeploymentQcSettings, rows: Record<string, Row>): Record<string, unknown> {
   const out: Record<string, unknown> = structuredClone(data.overrides);
   const vars: Record<string, Record<string, unknown>> = { ...((out.variables as Record<string, Record<string, unknown>> | undefined) ?? {}) };
   for (const [v, r] of Object.entries(rows)) {
@@ -104,6 +104,16 @@ export function overridesFrom(data: DeploymentQcSettings, rows: Record<string, R
   else delete out.variables;
   return out;
 }
+
+const GAP_FLAG_OPTIONS = [
+  { value: "4", label: "fail (4)" },
+  { value: "3", label: "suspect (3)" },
+];
+const DRAG_LAW_OPTIONS = dragLaws.map((l) => ({ value: l, label: l }));
+const AIR_DENSITY_OPTIONS = [
+  { value: "fixed", label: "fixed value" },
+  { value: "ideal_gas", label: "from p, T and RH" },
+];
 
 /** Deployment-wide settings shown above the table, as typed. */
 type Site = { intervalS: string; gapFactor: string; gapFlag: string; dragLaw: string; airMethod: string; airValue: string; seawaterDensity: string };
@@ -131,7 +141,7 @@ function setOrClear(out: Record<string, unknown>, group: string, key: string, ch
 }
 
 /** The overrides with the deployment-wide settings folded in (only where they differ from the defaults). */
-export function withSite(overrides: Record<string, unknown>, data: DeploymentQcSettings, site: Site): Record<string, unknown> {
+function withSite(overrides: Record<string, unknown>, data: DeploymentQcSettings, site: Site): Record<string, unknown> {
   const out = structuredClone(overrides);
   const d = siteOf(data.defaults);
   setOrClear(out, "timing", "expectedIntervalS", site.intervalS.trim() !== d.intervalS, num(site.intervalS));
@@ -230,26 +240,20 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
         <TextField label="Gap after (× interval)" inputMode="decimal" value={site.gapFactor} onChange={(e) => setSite({ ...site, gapFactor: e.target.value })} />
         <SelectField
           label="A gap is flagged"
-          options={[
-            { value: "4", label: "fail (4)" },
-            { value: "3", label: "suspect (3)" },
-          ]}
+          options={GAP_FLAG_OPTIONS}
           value={site.gapFlag}
           onChange={(e) => setSite({ ...site, gapFlag: e.target.value })}
         />
         <SelectField
           label="Drag law"
           hint={dragLawSources[site.dragLaw as keyof typeof dragLawSources]?.split(";")[0]}
-          options={dragLaws.map((l) => ({ value: l, label: l }))}
+          options={DRAG_LAW_OPTIONS}
           value={site.dragLaw}
           onChange={(e) => setSite({ ...site, dragLaw: e.target.value })}
         />
         <SelectField
           label="Air density"
-          options={[
-            { value: "fixed", label: "fixed value" },
-            { value: "ideal_gas", label: "from p, T and RH" },
-          ]}
+          options={AIR_DENSITY_OPTIONS}
           value={site.airMethod}
           onChange={(e) => setSite({ ...site, airMethod: e.target.value })}
         />
