@@ -3,6 +3,7 @@ import { arrayDiagnostics } from "@shared/compute/array";
 import { idSchema } from "@shared/schemas/common";
 import { builtVersionStates } from "@shared/schemas/versions";
 import { pool } from "../db/client";
+import { flagSql } from "../db/record-flags";
 import { logger } from "../lib/logger";
 import type { JobDefinition } from "./index";
 import { enqueue } from "./queue";
@@ -49,8 +50,8 @@ export async function computeArrayDiagnostics(projectId: string): Promise<{ step
     // Hourly mean stress over values flagged pass or not evaluated, read from the version's records.
     const s = await pool.query(
       `select floor(extract(epoch from time) / $3)::float8 * $3 as t,
-              avg(surface_downward_eastward_stress) filter (where surface_downward_eastward_stress_qc in (1, 2) and surface_downward_eastward_stress <> 'NaN') as x,
-              avg(surface_downward_northward_stress) filter (where surface_downward_northward_stress_qc in (1, 2) and surface_downward_northward_stress <> 'NaN') as y
+              avg(surface_downward_eastward_stress) filter (where ${flagSql("surface_downward_eastward_stress")} in (1, 2) and surface_downward_eastward_stress <> 'NaN') as x,
+              avg(surface_downward_northward_stress) filter (where ${flagSql("surface_downward_northward_stress")} in (1, 2) and surface_downward_northward_stress <> 'NaN') as y
          from records
         where dataset_id = $1 and platform = '' and valid_from <= $2 and (valid_to is null or valid_to > $2)
         group by 1`,
@@ -105,7 +106,7 @@ export async function computeArrayDiagnostics(projectId: string): Promise<{ step
 export const arrayDiagnosticsJob: JobDefinition = {
   name: ARRAY_DIAGNOSTICS,
   async register(boss) {
-    await boss.work<{ projectId: string }>(ARRAY_DIAGNOSTICS, { pollingIntervalSeconds: 1, batchSize: 1 }, async ([job]) => {
+    return boss.work<{ projectId: string }>(ARRAY_DIAGNOSTICS, { pollingIntervalSeconds: 1, batchSize: 1 }, async ([job]) => {
       const { projectId } = payloadSchema.parse(job!.data);
       logger.info({ projectId }, `[${ARRAY_DIAGNOSTICS}][${job!.id}] start`);
       const r = await computeArrayDiagnostics(projectId);

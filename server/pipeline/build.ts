@@ -11,6 +11,7 @@ import type { DeploymentContext } from "@shared/compute/diagnostics";
 import { createEngine, flatLineCounts, type EngineBlock, type RunSummary } from "@shared/compute/engine";
 import { inferInterval } from "@shared/compute/timing";
 import { pool } from "../db/client";
+import { FLAG_ORDER, flagSql } from "../db/record-flags";
 import { pathForKey } from "../lib/file-store";
 import { applyManualFlags } from "../services/annotations";
 import { copyHeader, copyTrailer, createRecordEncoder } from "./copy-encoder";
@@ -277,7 +278,7 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
     // out with a warning rather than failing the build.
     const stored = await recordColumns(client);
     const engineColumns = [...engine.variables, ...engine.derivedVariables] as string[];
-    const columns = engineColumns.filter((c) => stored.has(c) && stored.has(`${c}_qc`));
+    const columns = engineColumns.filter((c) => stored.has(c) && FLAG_ORDER.includes(c));
     const unstored = engineColumns.filter((c) => !columns.includes(c));
     const encoder = createRecordEncoder(L.datasetId, L.number, columns, keys);
     const summariser: Summariser | null =
@@ -564,7 +565,7 @@ export async function finishUnbuilt(versionId: string, runState: "failed" | "can
  */
 export async function summariseVersion(client: pg.PoolClient, datasetId: string, number: number, columns: string[], settings: QcSettings): Promise<Summariser> {
   const s = createSummariser(columns, columns.map(unitOf), settings.timing.expectedIntervalS, settings.timing.gapFactor);
-  const cols = columns.flatMap((c) => [`"${c}"`, `"${c}_qc"`]).join(", ");
+  const cols = columns.flatMap((c) => [`"${c}"`, flagSql(c)]).join(", ");
   const out = client.query(
     copyTo(
       `copy (select platform, extract(epoch from time)::float8, ${cols} from records

@@ -3,6 +3,7 @@
  * (the pipeline's hot path); layout per the PostgreSQL manual, "COPY — Binary Format": a signature header, then per
  * row an int16 field count and per field an int32 byte length (−1 = NULL) and the value in network byte order.
  */
+import { FLAG_ORDER, flagIndex } from "../db/record-flags";
 
 /** Epoch seconds of PostgreSQL's timestamp origin, 2000-01-01T00:00:00Z. */
 const PG_EPOCH_S = 946_684_800;
@@ -44,13 +45,18 @@ export interface RecordRows {
 }
 
 /**
- * Builds the encoder for one build: fixed leading columns (dataset_id, platform, time, valid_from) then one
- * (value, flag) pair per variable, matching `columnList`. NaN values are written as NULL.
+ * Builds the encoder for one build: fixed leading columns (dataset_id, platform, time, valid_from), one value per
+ * variable, then `flags` — FLAG_ORDER.length bytes, each variable's flag at its place (0 for variables this build
+ * does not have). Matches `columnList`. NaN values are written as NULL.
  */
 export function createRecordEncoder(datasetId: string, validFrom: number, variables: readonly string[], platformKeys: readonly string[]) {
   const ds = uuidBytes(datasetId);
   const nv = variables.length;
-  const fieldCount = 4 + 2 * nv;
+  const fieldCount = 4 + nv + 1;
+  const flagBytes = FLAG_ORDER.length;
+  const at = Int32Array.from(variables, flagIndex);
+  // Places of variables this build does not have: zeroed in each row (cheaper than clearing all of them).
+  const absent = Int32Array.from(FLAG_ORDER.keys()).filter((k) => !at.includes(k));
   const keyBytes = new Map<number, Buffer>();
   const keyOf = (p: number) => {
     let b = keyBytes.get(p);
@@ -60,9 +66,9 @@ export function createRecordEncoder(datasetId: string, validFrom: number, variab
     }
     return b;
   };
-  const columnList = ["dataset_id", "platform", "time", "valid_from", ...variables.flatMap((v) => [`"${v}"`, `"${v}_qc"`])].join(", ");
-  // Fixed bytes per row without the platform text: count + uuid + platform length + time + valid_from + variables.
-  const fixed = 2 + (4 + 16) + 4 + (4 + 8) + (4 + 4) + nv * ((4 + 8) + (4 + 2));
+  const columnList = ["dataset_id", "platform", "time", "valid_from", ...variables.map((v) => `"${v}"`), "flags"].join(", ");
+  // Fixed bytes per row without the platform text: count + uuid + platform length + time + valid_from + values + flags.
+  const fixed = 2 + (4 + 16) + 4 + (4 + 8) + (4 + 4) + nv * (4 + 8) + (4 + flagBytes);
 
   return {
     columnList,
@@ -111,10 +117,12 @@ export function createRecordEncoder(datasetId: string, validFrom: number, variab
             dv.setInt32(o, -1);
             o += 4;
           }
-          dv.setInt32(o, 2);
-          dv.setInt16(o + 4, flags[v]![i]!);
-          o += 6;
         }
+        dv.setInt32(o, flagBytes);
+        o += 4;
+        for (let z = 0; z < absent.length; z++) buf[o + absent[z]!] = 0;
+        for (let v = 0; v < nv; v++) buf[o + at[v]!] = flags[v]![i]!;
+        o += flagBytes;
       }
       return buf.subarray(0, o);
     },

@@ -11,13 +11,14 @@ import {
 import type { VersionState } from "@shared/schemas/datasets";
 import { derivedVariables, measuredVariables, type DerivedVariable, type MeasuredVariable } from "@shared/vocabulary";
 import { pool } from "../db/client";
+import { flagSql, recordVariables, setFlagsSql } from "../db/record-flags";
 import { AppError, notFound, unauthenticated } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
 import { assertProjectAccess } from "./access";
 import { isKnownVariable } from "./explore";
 
 /**
- * Annotations and manual flags. A flag annotation sets `<variable>_qc` over its time range in the dataset's editable
+ * Annotations and manual flags. A flag annotation sets a variable's flag (its byte of `flags`) over its time range in the dataset's editable
  * version (ready or changes requested) and in every later build (the pipeline calls `applyManualFlags`). Records are
  * shared between versions, so a row an earlier version also sees is never changed in place: it is closed at this
  * version (valid_to = N) and a flagged copy starts here (valid_from = N), in the caller's transaction. The flag a
@@ -27,7 +28,7 @@ import { isKnownVariable } from "./explore";
 /** Version states whose records a manual flag may change now. */
 const EDITABLE: readonly VersionState[] = ["ready", "changes_requested"];
 
-const ALL_COLUMNS = [...measuredVariables, ...derivedVariables].flatMap((v) => [v, `${v}_qc`]);
+const ALL_COLUMNS = [...recordVariables, "flags"];
 const q = (c: string) => `"${c.replace(/"/g, "")}"`;
 
 export interface FlagRange {
@@ -79,24 +80,24 @@ export async function applyManualFlags(tx: pg.ClientBase, datasetId: string, ver
 
   for (const [variable, rs] of byVariable) {
     const c = q(variable);
-    const f = q(`${variable}_qc`);
+    const f = flagSql(variable, "r.");
     await tx.query(`truncate mf_changes`);
     for (const r of rs) {
       // The wanted flag of each visible row in this range; only rows where it differs are kept.
       await tx.query(
         `insert into mf_changes (platform, time, valid_from, cur, want)
          select x.platform, x.time, x.valid_from, x.cur, x.want from (
-           select r.platform, r.time, r.valid_from, r.${f} as cur,
+           select r.platform, r.time, r.valid_from, ${f} as cur,
                   coalesce(
                     (select a.flag from annotations a
                       where a.dataset_id = $1 and a.flag is not null and $3 = any(a.variables) and r.time between a.start_time and a.end_time
                         and (a.platform is null or a.platform = r.platform)
                       order by a.updated_at desc, a.id desc limit 1),
-                    case when $7 and r.valid_from = $2 then r.${f} end,
+                    case when $7 and r.valid_from = $2 then ${f} end,
                     (select o.flag from manual_flag_originals o
                       where o.dataset_id = $1 and o.platform = r.platform and o.variable = $3 and o.time = r.time and o.version_number <= $2
                       order by o.version_number desc limit 1),
-                    r.${f}) as want
+                    ${f}) as want
              from records r
             where r.dataset_id = $1 and r.valid_from <= $2 and (r.valid_to is null or r.valid_to > $2)
               and r.time between $4::timestamptz and $5::timestamptz and ($6::text is null or r.platform = $6) and r.${c} is not null
@@ -120,7 +121,7 @@ export async function applyManualFlags(tx: pg.ClientBase, datasetId: string, ver
     );
     await copyOnWrite(tx, datasetId, N);
     const upd = await tx.query(
-      `update records r set ${f} = m.want from mf_changes m where r.dataset_id = $1 and r.platform = m.platform and r.time = m.time and r.valid_from = $2`,
+      `update records r set flags = ${setFlagsSql([{ variable, value: "m.want" }], "r.")} from mf_changes m where r.dataset_id = $1 and r.platform = m.platform and r.time = m.time and r.valid_from = $2`,
       [datasetId, N],
     );
     rowsChanged += upd.rowCount ?? 0;
@@ -177,7 +178,7 @@ async function loadContext(tx: pg.ClientBase, datasetId: string, N: number): Pro
 /** Re-derives the flags of derived variables on every touched row (all of which now start at version N). */
 async function rederive(tx: pg.ClientBase, datasetId: string, N: number, settings: QcSettings, ctx: DeploymentContext, noteDelta: (v: string, a: number | null, b: number, n: number) => void) {
   const drift = ["surface_eastward_sea_water_velocity", "surface_northward_sea_water_velocity", "platform_speed_wrt_ground"] as const;
-  const cols = [...measuredVariables.flatMap((v) => [v, `${v}_qc`]), ...derivedVariables.flatMap((v) => [v, `${v}_qc`])].map((c) => `r.${q(c)}`).join(", ");
+  const cols = [...measuredVariables, ...derivedVariables].flatMap((v) => [`r.${q(v)}`, flagSql(v, "r.")]).join(", ");
   const BATCH = 20000;
   let after: [string, string] | null = null;
   for (;;) {
@@ -243,7 +244,7 @@ async function rederive(tx: pg.ClientBase, datasetId: string, N: number, setting
     }
     if (changedCols.length) {
       const pick = [...rowChanged.keys()].filter((k) => rowChanged[k]);
-      const sets = changedCols.map((c, j) => `${q(`${c.name}_qc`)} = coalesce(x.f${j}, r.${q(`${c.name}_qc`)})`).join(", ");
+      const sets = `flags = ${setFlagsSql(changedCols.map((c, j) => ({ variable: c.name, value: `x.f${j}` })), "r.")}`;
       const arrays = changedCols.map((_, j) => `$${5 + j}::smallint[]`).join(", ");
       const names = changedCols.map((_, j) => `f${j}`).join(", ");
       await tx.query(
@@ -269,7 +270,7 @@ async function patchPlotSeries(tx: pg.ClientBase, datasetId: string, N: number, 
     for (const span of spans.rows) {
       const lo = Math.floor(span.lo / step) * step;
       const hi = Math.floor(span.hi / step) * step + step;
-      const aggs = variables.map((v) => `max(${q(`${v}_qc`)}) filter (where ${q(v)} <> 'NaN' and ${q(`${v}_qc`)} <> 9)`).join(", ");
+      const aggs = variables.map((v) => `max(${flagSql(v)}) filter (where ${q(v)} <> 'NaN' and ${flagSql(v)} <> 9)`).join(", ");
       const { rows } = await tx.query({
         text: `select floor(extract(epoch from time) / $4)::float8 * $4 as b, ${aggs} from records
                 where dataset_id = $1 and valid_from <= $2 and (valid_to is null or valid_to > $2) and platform = $3

@@ -15,6 +15,7 @@ import { derivedVariables, measuredVariables } from "@shared/vocabulary";
 import type { VersionState } from "@shared/schemas/datasets";
 import type { Db } from "../db/client";
 import { db } from "../db/client";
+import { flagSql } from "../db/record-flags";
 import { auditLog, datasets, plotSeries, projects, qcRuns, releases, reviews, uploads, user as users, versionComments, versions } from "../db/schema";
 import { conflict, forbidden, notFound } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
@@ -350,11 +351,14 @@ export async function compareVersion(user: SessionUser, versionId: string): Prom
   const rowN: SQL[] = [];
   const rowO: SQL[] = [];
   for (const c of cols) {
-    rowN.push(pair("n", c), pair("n", `${c}_qc`));
-    rowO.push(pair("o", c), pair("o", `${c}_qc`));
+    rowN.push(pair("n", c));
+    rowO.push(pair("o", c));
   }
+  // Flags compared byte by byte: a whole-row comparison of the packed flags covers every variable at once.
+  rowN.push(sql`n.flags`);
+  rowO.push(sql`o.flags`);
   const perVar = cols.flatMap((c, i) => [
-    sql`count(*) filter (where ${both} and ${pair("n", `${c}_qc`)} is distinct from ${pair("o", `${c}_qc`)})::int as ${sql.identifier(`f${i}`)}`,
+    sql`count(*) filter (where ${both} and ${sql.raw(flagSql(c, "n."))} is distinct from ${sql.raw(flagSql(c, "o."))})::int as ${sql.identifier(`f${i}`)}`,
     sql`count(*) filter (where ${both} and ${pair("n", c)} is distinct from ${pair("o", c)})::int as ${sql.identifier(`v${i}`)}`,
   ]);
   const res = await db.execute(sql`

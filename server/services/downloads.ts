@@ -19,6 +19,7 @@ import { qcFlagMeanings, qcLevelFlags, type DownloadFormat, type DownloadQuery, 
 import { builtVersionStates } from "@shared/schemas/versions";
 import { derivedVocabulary, derivedVariables, measuredVariables, vocabulary, type MeasuredVariable } from "@shared/vocabulary";
 import { db, pool } from "../db/client";
+import { flagSql } from "../db/record-flags";
 import { datasets, projects, releases, versions } from "../db/schema";
 import { env } from "../env";
 import { AppError, notFound, unauthenticated } from "../lib/errors";
@@ -205,11 +206,11 @@ export function downloadSql(plan: DownloadPlan, style: "csv" | "rows"): string {
   const accepted = plan.qc === "all" ? null : qcLevelFlags[plan.qc].join(", ");
   for (const v of plan.variables) {
     const c = ident(v.name);
-    const q = ident(v.name).replace(/"$/, '_qc"');
-    cols.push(accepted ? `case when ${q} in (${accepted}) then ${c} end as ${c}` : c, `${q}`);
+    const f = flagSql(v.name);
+    cols.push(accepted ? `case when ${f} in (${accepted}) then ${c} end as ${c}` : c, `${f} as ${ident(v.name).replace(/"$/, '_qc"')}`);
   }
   // Decimation counts records of the time range; the QC level then drops rows with no accepted value left.
-  const qcWhere = accepted && plan.variables.length ? [`(${plan.variables.map((v) => `${ident(v.name).replace(/"$/, '_qc"')} in (${accepted})`).join(" or ")})`] : [];
+  const qcWhere = accepted && plan.variables.length ? [`(${plan.variables.map((v) => `${flagSql(v.name)} in (${accepted})`).join(" or ")})`] : [];
   const order = "order by platform, time";
   if (plan.every > 1) {
     const inner = `select *, row_number() over (partition by platform order by time) as rn_ from records where ${where.join(" and ")}`;

@@ -15,6 +15,7 @@ import { frozenVersionStates, versionSummaryDataSchema, type VersionSummaryData 
 import type { VersionState } from "@shared/schemas/datasets";
 import { derivedVocabulary, vocabulary, type DerivedVariable, type MeasuredVariable } from "@shared/vocabulary";
 import { pool } from "../db/client";
+import { flagSql } from "../db/record-flags";
 import { PLOT_STEPS_S } from "../pipeline/summarise";
 import { AppError, conflict, forbidden, notFound, unauthenticated } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
@@ -191,7 +192,7 @@ async function recordBuckets(v: ReadableVersion, variables: string[], platform: 
     .map((x) => {
       const c = q(x);
       const ok = `${c} <> 'NaN'`;
-      const f = q(`${x}_qc`);
+      const f = flagSql(x);
       return `min(${c}) filter (where ${ok}), max(${c}) filter (where ${ok}), avg(${c}) filter (where ${ok}), count(*) filter (where ${ok}), max(${f}) filter (where ${ok} and ${f} <> 9)`;
     })
     .join(", ");
@@ -265,14 +266,14 @@ export async function getRecordsPage(user: SessionUser | null | undefined, id: s
   where.push(plats.length === 1 ? `platform = ${add(plats[0])}` : `platform = any(${add(plats)}::text[])`);
   if (input.flags?.length) {
     const f = add(input.flags);
-    where.push(`(${vars.map((x) => `${q(`${x}_qc`)} = any(${f}::smallint[])`).join(" or ")})`);
+    where.push(`(${vars.map((x) => `${flagSql(x)} = any(${f}::smallint[])`).join(" or ")})`);
   }
   const dir = input.order === "desc" ? "desc" : "asc";
   if (input.cursor) {
     const c = decodeCursor(input.cursor);
     where.push(`(time, platform) ${dir === "asc" ? ">" : "<"} (${add(c.t)}::timestamptz, ${add(c.p)})`);
   }
-  const cols = vars.flatMap((x) => [q(x), q(`${x}_qc`)]).join(", ");
+  const cols = vars.flatMap((x) => [q(x), flagSql(x)]).join(", ");
   const limit = input.limit;
   const { rows } = await pool.query({
     text: `select to_char(time at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"') as t, platform${cols ? `, ${cols}` : ""}

@@ -6,6 +6,7 @@ import { stopSender } from "../../server/jobs/queue";
 import { as, makeProjectWithRoles, testApp } from "../helpers/api";
 import { buildMooringVersion, releaseVersion } from "../helpers/explore";
 import { makeMooringDataset, versionRows } from "../helpers/pipeline";
+import { setFlagsSql } from "../../server/db/record-flags";
 
 let roles: Awaited<ReturnType<typeof makeProjectWithRoles>>;
 const day = Date.UTC(2026, 9, 1) / 1000;
@@ -147,7 +148,7 @@ describe("manual flags", () => {
     expect(res.body.note).toMatch(/released/);
     expect(await fingerprint(datasetId, 1)).toEqual(before);
     // Direct SQL cannot change it either (the database guard).
-    await expect(pool.query(`update records set air_temperature_qc = 4 where dataset_id = $1`, [datasetId])).rejects.toThrow(/released version/);
+    await expect(pool.query(`update records set flags = ${setFlagsSql([{ variable: "air_temperature", value: "4" }])} where dataset_id = $1`, [datasetId])).rejects.toThrow(/released version/);
   });
 });
 

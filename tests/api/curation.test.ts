@@ -8,6 +8,7 @@ import type { SessionUser } from "../../server/middleware/require-session";
 import { releaseVersion, retractVersion } from "../../server/services/releases";
 import { addMembership, as, createTestUser, makeProjectWithRoles, type TestUser } from "../helpers/api";
 import { makeDataset, makeVersion } from "../helpers/curation";
+import { packFlags } from "../../server/db/record-flags";
 
 /**
  * The curation state machine: every action × every starting state × every kind of caller, with the
@@ -251,13 +252,13 @@ describe("GET /api/versions/:id/compare", () => {
     const t = (h: number) => `2026-03-01T0${h}:00:00Z`;
     // Version 1: five hourly rows, all passed.
     for (const [h, ws] of [[0, 5], [1, 6], [2, 7], [3, 8], [4, 9]] as const) {
-      await db.execute(sql`insert into records (dataset_id, time, valid_from, wind_speed, wind_speed_qc) values (${datasetId}, ${t(h)}, 1, ${ws}, 1)`);
+      await db.execute(sql`insert into records (dataset_id, time, valid_from, wind_speed, flags) values (${datasetId}, ${t(h)}, 1, ${ws}, ${packFlags({ wind_speed: 1 })})`);
     }
     // Version 2 rewrites hours 1–4 (closing version 1's rows) and appends hours 5 and 6:
     // hour 1 rewritten identically (not a change), hour 2 new value, hour 3 new flag, hour 4 dropped.
     await db.execute(sql`update records set valid_to = 2 where dataset_id = ${datasetId} and time >= ${t(1)}`);
     for (const [h, ws, f] of [[1, 6, 1], [2, 7.5, 1], [3, 8, 3], [5, 10, 1], [6, 11, 4]] as const) {
-      await db.execute(sql`insert into records (dataset_id, time, valid_from, wind_speed, wind_speed_qc) values (${datasetId}, ${t(h)}, 2, ${ws}, ${f})`);
+      await db.execute(sql`insert into records (dataset_id, time, valid_from, wind_speed, flags) values (${datasetId}, ${t(h)}, 2, ${ws}, ${packFlags({ wind_speed: f })})`);
     }
     const res = await as(ctx.users.curator.cookie).get(`/api/versions/${v2}/compare`);
     expect(res.status).toBe(200);

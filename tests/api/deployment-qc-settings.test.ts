@@ -5,6 +5,7 @@ import { as, makeProjectWithRoles } from "../helpers/api";
 import { demoMooringColumnMap } from "@shared/demo/generate";
 import { buildMooringVersion, buildVersionFromText } from "../helpers/explore";
 import { makeMooringDataset } from "../helpers/pipeline";
+import { columnSql } from "../../server/db/record-flags";
 
 /**
  * Thresholds are settings per deployment with defaults (PRODUCT.md, Science): members read them, contributors and
@@ -88,7 +89,7 @@ describe("the watch circle recorded on a mooring's deployment", () => {
       ],
     };
     const v = await buildVersionFromText(datasetId, ctx.users.contributor, `${text}\n`, { map, overrides });
-    const flags = await pool.query(`select latitude_qc from records where dataset_id = $1 and valid_to is null order by time`, [datasetId]);
+    const flags = await pool.query(`select ${columnSql("latitude_qc")} from records where dataset_id = $1 and valid_to is null order by time`, [datasetId]);
     const run = await pool.query(`select settings from qc_runs where version_id = $1`, [v.id]);
     return { flags: flags.rows.map((r) => r.latitude_qc), radius: run.rows[0].settings.location.watchCircleM };
   }

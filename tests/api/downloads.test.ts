@@ -7,6 +7,7 @@ import { pool } from "../../server/db/client";
 import { as } from "../helpers/api";
 import { makeVersion } from "../helpers/curation";
 import { fixtureRows, fixtureSummary, fixtureVariables, insertRecords, releasedFixture } from "../helpers/released";
+import { columnSql } from "../../server/db/record-flags";
 
 type Fixture = Awaited<ReturnType<typeof releasedFixture>>;
 let f: Fixture;
@@ -32,7 +33,7 @@ const binary = (t: request.Test) =>
 
 /** The stored rows of version `n`, as PostgreSQL holds them (node-postgres parses float8 to the same double). */
 async function stored(datasetId: string, n: number, extra = "") {
-  const cols = fixtureVariables.flatMap((v) => [v, `${v}_qc`]).join(", ");
+  const cols = fixtureVariables.flatMap((v) => [v, `${v}_qc`].map((c) => columnSql(c))).join(", ");
   const { rows } = await pool.query(
     `select platform, time, ${cols} from records where dataset_id = $1 and valid_from <= $2 and (valid_to is null or valid_to > $2) ${extra} order by platform, time`,
     [datasetId, n],

@@ -5,6 +5,7 @@ import { stopSender } from "../../server/jobs/queue";
 import { as, makeProjectWithRoles, testApp } from "../helpers/api";
 import { buildMooringVersion, releaseVersion } from "../helpers/explore";
 import { makeMooringDataset, versionRows } from "../helpers/pipeline";
+import { flagSql } from "../../server/db/record-flags";
 
 let roles: Awaited<ReturnType<typeof makeProjectWithRoles>>;
 let datasetId: string;
@@ -141,7 +142,7 @@ describe("GET /api/versions/:id/records", () => {
     const range = recordsPageSchema.parse((await c.get(`/api/versions/${version.id}/records?from=2026-10-01T01:00:00Z&to=2026-10-01T01:01:00Z`)).body);
     expect(range.items.map((r) => r.time)).toEqual(Array.from({ length: 7 }, (_, i) => new Date((day + 3600 + 10 * i) * 1000).toISOString()));
     const { rows } = await pool.query(
-      `select count(*)::int as n from records where dataset_id = $1 and valid_from <= $2 and (valid_to is null or valid_to > $2) and (wind_speed_qc in (3, 4) or air_temperature_qc in (3, 4))`,
+      `select count(*)::int as n from records where dataset_id = $1 and valid_from <= $2 and (valid_to is null or valid_to > $2) and (${flagSql("wind_speed")} in (3, 4) or ${flagSql("air_temperature")} in (3, 4))`,
       [datasetId, version.number],
     );
     const flagged = recordsPageSchema.parse((await c.get(`/api/versions/${version.id}/records?variables=wind_speed,air_temperature&flags=3,4&limit=2000`)).body);
@@ -164,7 +165,7 @@ describe("QC report and track", () => {
     expect(Object.keys(raw).length).toBeGreaterThan(0);
     for (const [v, tests] of Object.entries(raw)) for (const [t, c] of Object.entries(tests)) expect(r.testCounts[v]![t.toLowerCase()]).toEqual(c);
     const ws = r.variables.find((v) => v.key === "wind_speed")!;
-    const { rows } = await pool.query(`select wind_speed_qc as f, count(*)::int as n from records where dataset_id = $1 group by 1`, [datasetId]);
+    const { rows } = await pool.query(`select ${flagSql("wind_speed")} as f, count(*)::int as n from records where dataset_id = $1 group by 1`, [datasetId]);
     for (const x of rows) expect(ws.flags[x.f]).toBe(x.n);
     expect(r.timeline!.rows.length).toBeGreaterThan(0);
   });

@@ -4,6 +4,7 @@ import { pool } from "../../server/db/client";
 import { stopSender } from "../../server/jobs/queue";
 import { as, makeProjectWithRoles } from "../helpers/api";
 import { countRows, makeMooringDataset, mooringMap, mooringText, startWorker, storeUpload, versionRows, waitForVersion, type WorkerHandle } from "../helpers/pipeline";
+import { flagSql, setFlagsSql } from "../../server/db/record-flags";
 
 /**
  * The processing pipeline end to end with a real worker process: builds, appends, the seam, determinism, cancel,
@@ -231,7 +232,7 @@ describe("GET /api/projects/:id/array-diagnostics", () => {
     // alone, w = β τx / (ρ f²) with f = 2Ω sin φ and β = 2Ω cos φ / a (Gill 1982, Atmosphere–Ocean Dynamics §9.4 and
     // §12.2 — formulas from memory; DOMAIN §9; ρ = 1025 kg m-3 common practice).
     const taux = await pool.query(
-      `select floor(extract(epoch from r.time) / 3600) as h, avg(surface_downward_eastward_stress) filter (where surface_downward_eastward_stress_qc in (1, 2)) as x from records r
+      `select floor(extract(epoch from r.time) / 3600) as h, avg(surface_downward_eastward_stress) filter (where ${flagSql("surface_downward_eastward_stress", "r.")} in (1, 2)) as x from records r
          join datasets d on d.id = r.dataset_id where d.project_id = $1 group by 1 order by 1 limit 1`,
       [projectId],
     );
@@ -259,7 +260,7 @@ describe("records of released versions (database trigger, raw SQL)", () => {
     expect(rel.status, JSON.stringify(rel.body)).toBeLessThan(300);
     const ts = `'${iso(day)}'`;
     await expect(pool.query(`update records set wind_speed = 99 where dataset_id = $1 and time = ${ts}`, [datasetId])).rejects.toThrow(/released version 1/);
-    await expect(pool.query(`update records set wind_speed_qc = 4 where dataset_id = $1`, [datasetId])).rejects.toThrow(/released version 1/);
+    await expect(pool.query(`update records set flags = ${setFlagsSql([{ variable: "wind_speed", value: "4" }])} where dataset_id = $1`, [datasetId])).rejects.toThrow(/released version 1/);
     await expect(pool.query(`delete from records where dataset_id = $1`, [datasetId])).rejects.toThrow(/released version 1/);
     await expect(pool.query(`update records set valid_to = 1 where dataset_id = $1`, [datasetId])).rejects.toThrow();
     await expect(pool.query(`truncate records`)).rejects.toThrow(/truncated/);

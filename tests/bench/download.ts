@@ -16,6 +16,7 @@ import { pipeline } from "node:stream/promises";
 import { to as copyTo } from "pg-copy-streams";
 import { adminCookie, monthVersion } from "./lib/month-version";
 import type { BenchContext } from "./run";
+import { columnSql } from "../../server/db/record-flags";
 
 const ROUNDS = 3;
 /** Prefix of the child's result line on stdout. */
@@ -57,7 +58,7 @@ async function child() {
   const cookie = await adminCookie(base, pool);
 
   const plan = await planVersion(version.id, downloadQuerySchema.parse({}));
-  const cols = ["time", ...plan.variables.flatMap((v) => [`"${v.name}"`, `"${v.name}_qc"`])].join(", ");
+  const cols = ["time", ...plan.variables.flatMap((v) => [`"${v.name}"`, columnSql(`${v.name}_qc`)])].join(", ");
   const n = version.number;
   const rawSql = `COPY (select ${cols} from records where dataset_id = '${version.dataset_id}' and valid_from <= ${n} and (valid_to is null or valid_to > ${n}) order by platform, time) TO STDOUT WITH (FORMAT csv, HEADER true)`;
   // Sanity: the download's own SELECT reads the same rows.

@@ -4,6 +4,7 @@ import { expect, test } from "@playwright/test";
 import pg from "pg";
 import { demoMooringDefaults, mooringChunks } from "../../shared/demo/generate";
 import { shot } from "./helpers";
+import { packFlags } from "../../server/db/record-flags";
 
 const databaseUrl = `postgres://postgres@127.0.0.1:${process.env.TEST_PG_PORT ?? "55433"}/${process.env.E2E_DB}`;
 const tag = randomUUID().slice(0, 6);
@@ -32,16 +33,17 @@ test.beforeAll(async () => {
       ])
     ).rows[0].id;
     const values: unknown[] = [];
+    const passed = packFlags({ wind_speed: 1, air_temperature: 1 });
     const tuples: string[] = [];
     for (const ch of mooringChunks({ ...demoMooringDefaults, durationS: 2 * 86400, intervalS: 1800 })) {
       for (let k = 0; k < ch.n; k++) {
         const b = values.length;
-        values.push(dataset, new Date(ch.time[k]! * 1000).toISOString(), ch.wind_speed[k], ch.air_temperature[k]! + 273.15);
-        tuples.push(`($${b + 1}, '', $${b + 2}, 1, $${b + 3}, 1, $${b + 4}, 1)`);
+        values.push(dataset, new Date(ch.time[k]! * 1000).toISOString(), ch.wind_speed[k], ch.air_temperature[k]! + 273.15, passed);
+        tuples.push(`($${b + 1}, '', $${b + 2}, 1, $${b + 3}, $${b + 4}, $${b + 5})`);
       }
     }
     rows = tuples.length;
-    await c.query(`insert into records (dataset_id, platform, time, valid_from, wind_speed, wind_speed_qc, air_temperature, air_temperature_qc) values ${tuples.join(", ")}`, values);
+    await c.query(`insert into records (dataset_id, platform, time, valid_from, wind_speed, air_temperature, flags) values ${tuples.join(", ")}`, values);
     const summary = {
       rows,
       platforms: [],

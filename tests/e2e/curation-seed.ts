@@ -1,6 +1,7 @@
 import { createHash, randomUUID } from "node:crypto";
 import pg from "pg";
 import { demoMooringDefaults, mooringChunks } from "../../shared/demo/generate";
+import { packFlags } from "../../server/db/record-flags";
 
 /**
  * Test-only seeding for the curation browser test: writes versions as the processing pipeline leaves them
@@ -82,12 +83,12 @@ function hourlyWorst(rows: Row[], v: number) {
 }
 
 async function insertRecords(c: pg.Client, datasetId: string, rows: Row[], validFrom: number) {
-  const cols = VARS.flatMap(([v]) => [v, `${v}_qc`]);
+  const cols = [...VARS.map(([v]) => v), "flags"];
   for (let s = 0; s < rows.length; s += 200) {
     const part = rows.slice(s, s + 200);
     const params: unknown[] = [];
     const tuples = part.map((r) => {
-      const vals = [datasetId, new Date(r.time * 1000).toISOString(), validFrom, ...r.values.flatMap((x, i) => [x, r.flags[i]])];
+      const vals = [datasetId, new Date(r.time * 1000).toISOString(), validFrom, ...r.values, packFlags(Object.fromEntries(VARS.map(([v], i) => [v, r.flags[i]])))];
       const base = params.length;
       params.push(...vals);
       return `(${vals.map((_, i) => `$${base + i + 1}`).join(",")})`;

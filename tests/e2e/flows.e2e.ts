@@ -4,6 +4,7 @@ import { expect, request, test, type APIRequestContext, type Page } from "@playw
 import pg from "pg";
 import { demoMooringColumnMap, demoMooringDefaults, mooringCsv } from "../../shared/demo/generate";
 import { DEMO_PASSWORD, demo, flakyLink, shot, signIn } from "./helpers";
+import { flagSql } from "../../server/db/record-flags";
 
 /**
  * The four user flows of PRODUCT.md end to end in Chromium, against the full stack with the demo scenario, each step
@@ -241,7 +242,7 @@ test("flow 2: the columns are mapped, processing shows progress, the QC report a
   expect(saved.status(), await saved.text()).toBe(201);
   await expect(page.getByText(/now carry the manual flag/)).toBeVisible({ timeout: 30_000 });
   const [flagged] = await db<{ n: number }>(
-    `select count(*)::int as n from records where dataset_id = $1 and valid_from <= 2 and (valid_to is null or valid_to > 2) and wind_speed_qc = 3`,
+    `select count(*)::int as n from records where dataset_id = $1 and valid_from <= 2 and (valid_to is null or valid_to > 2) and ${flagSql("wind_speed")} = 3`,
     [s.datasetId],
   );
   expect(flagged!.n).toBeGreaterThan(0);

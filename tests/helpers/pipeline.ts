@@ -7,6 +7,7 @@ import { db, pool } from "../../server/db/client";
 import { datasets, deployments, platforms, uploads, versions } from "../../server/db/schema";
 import { pathForKey, uploadKey } from "../../server/lib/file-store";
 import { demoMooringColumnMap, demoMooringDefaults, mooringCsv, type MooringOptions } from "../../shared/demo/generate";
+import { columnSql } from "../../server/db/record-flags";
 
 /** A mooring platform, deployment and dataset in a project (invented Merrow Shelf-style names). */
 export async function makeMooringDataset(projectId: string, opts: { latitude?: number; longitude?: number; name?: string } = {}) {
@@ -105,7 +106,7 @@ export async function waitForVersion(id: string, states: string[], timeoutMs = 6
 
 /** Rows a version sees, ordered by platform and time, with the given columns. */
 export async function versionRows(datasetId: string, number: number, columns: string[]) {
-  const cols = columns.map((c) => `"${c}"`).join(", ");
+  const cols = columns.map((c) => columnSql(c)).join(", ");
   const r = await pool.query(
     `select platform, extract(epoch from time)::float8 as t${cols ? `, ${cols}` : ""} from records
       where dataset_id = $1 and valid_from <= $2 and (valid_to is null or valid_to > $2) order by platform, time`,

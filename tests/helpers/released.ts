@@ -3,6 +3,7 @@ import { pool } from "../../server/db/client";
 import { as, makeProjectWithRoles } from "./api";
 import { makeVersion } from "./curation";
 import { makeMooringDataset } from "./pipeline";
+import { packFlags } from "../../server/db/record-flags";
 
 /** Variables the fixture stores: two measured (CF names), one derived, and latitude/longitude for drifters. */
 export const fixtureVariables = ["wind_speed", "air_temperature", "magnitude_of_surface_downward_stress"] as const;
@@ -44,12 +45,12 @@ export function fixtureRows(n: number, platforms: string[] = [""], start = Date.
 
 /** Inserts rows for a version number (valid_from = number) in batches. */
 export async function insertRecords(datasetId: string, versionNumber: number, rows: FixtureRow[]) {
-  const cols = ["dataset_id", "platform", "time", "valid_from", ...fixtureVariables.flatMap((v) => [v, `${v}_qc`])];
+  const cols = ["dataset_id", "platform", "time", "valid_from", ...fixtureVariables, "flags"];
   for (let i = 0; i < rows.length; i += 500) {
     const batch = rows.slice(i, i + 500);
     const values: unknown[] = [];
     const tuples = batch.map((r) => {
-      const row = [datasetId, r.platform, r.time, versionNumber, ...fixtureVariables.flatMap((v) => [r.values[v], r.flags[v]])];
+      const row = [datasetId, r.platform, r.time, versionNumber, ...fixtureVariables.map((v) => r.values[v]), packFlags(r.flags)];
       const base = values.length;
       values.push(...row.map((x) => (typeof x === "number" && Number.isNaN(x) ? "NaN" : x)));
       return `(${row.map((_, j) => `$${base + j + 1}`).join(", ")})`;

@@ -11,7 +11,9 @@
  * - One column per canonical variable, named by its key (shared/vocabulary.ts): measured variables in canonical
  *   units (`wind_speed`, `air_temperature` in K, …) and derived ones (`surface_downward_eastward_stress`, …),
  *   `double precision`, NULL where the build had no such variable (a NaN value is stored as NaN).
- * - Each variable's aggregate QC flag in `<key>_qc` (smallint: 1 pass, 2 not evaluated, 3 suspect, 4 fail, 9 missing).
+ * - Every variable's aggregate QC flag in one `flags` bytea, a byte per variable at its place in FLAG_ORDER
+ *   (server/db/record-flags.ts: 1 pass, 2 not evaluated, 3 suspect, 4 fail, 9 missing, 0 none); SQL reads one with
+ *   `record_flag(flags, i)` and readers name it `<key>_qc` in what they return.
  * Rows of released (also superseded or retracted) versions can never change: a trigger refuses any UPDATE or DELETE
  * that would alter what such a version sees (drizzle/*_records_released_guard.sql).
  */
@@ -20,6 +22,7 @@ import {
   bigint,
   boolean,
   check,
+  customType,
   doublePrecision,
   index,
   integer,
@@ -39,17 +42,14 @@ import { user } from "./auth";
 import { versions } from "./datasets";
 import { deployments, projects } from "./projects";
 
-/**
- * Every value column first, then every flag column: PostgreSQL aligns a double to 8 bytes, so a smallint flag
- * between two doubles wasted 6 bytes of padding per variable (about a third of a record; migration 0013).
- */
+/** One value column per variable, then the packed flags (migrations 0013 and 0014). */
 const variableColumns = () => {
-  const cols: Record<string, ReturnType<typeof doublePrecision> | ReturnType<typeof smallint>> = {};
-  const all = [...measuredVariables, ...derivedVariables];
-  for (const v of all) cols[v] = doublePrecision(v);
-  for (const v of all) cols[`${v}_qc`] = smallint(`${v}_qc`);
+  const cols: Record<string, ReturnType<typeof doublePrecision>> = {};
+  for (const v of [...measuredVariables, ...derivedVariables]) cols[v] = doublePrecision(v);
   return cols;
 };
+
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => "bytea" });
 
 export const records = pgTable(
   "records",
@@ -63,6 +63,7 @@ export const records = pgTable(
     validFrom: integer().notNull(),
     validTo: integer(),
     ...variableColumns(),
+    flags: bytea().notNull(),
   },
   (t) => [
     primaryKey({ name: "records_pkey", columns: [t.datasetId, t.platform, t.time, t.validFrom] }),

@@ -1,4 +1,5 @@
 import { describe, expect, test } from "vitest";
+import { FLAG_ORDER, flagIndex } from "../../../../server/db/record-flags";
 import { copyHeader, copyTrailer, createRecordEncoder } from "../../../../server/pipeline/copy-encoder";
 
 // Layout from the PostgreSQL manual, "COPY — Binary Format": 11-byte signature, int32 flags, int32 extension length;
@@ -10,9 +11,9 @@ describe("binary COPY encoding of records", () => {
     expect(copyTrailer().readInt16BE(0)).toBe(-1);
   });
 
-  test("a row carries dataset, platform, time in µs since 2000, valid_from, then value/flag pairs with NaN as NULL", () => {
+  test("a row carries dataset, platform, time in µs since 2000, valid_from, the values with NaN as NULL, then the packed flags", () => {
     const enc = createRecordEncoder("00000000-0000-4000-8000-0000000000ab", 7, ["wind_speed", "air_temperature"], ["", "TD-01"]);
-    expect(enc.columnList).toBe(`dataset_id, platform, time, valid_from, "wind_speed", "wind_speed_qc", "air_temperature", "air_temperature_qc"`);
+    expect(enc.columnList).toBe(`dataset_id, platform, time, valid_from, "wind_speed", "air_temperature", flags`);
     const t = Date.UTC(2026, 9, 1, 0, 0, 1) / 1000 + 0.5;
     const buf = enc.encode({
       n: 1,
@@ -26,7 +27,7 @@ describe("binary COPY encoding of records", () => {
     let o = 0;
     const i16 = () => ((o += 2), buf.readInt16BE(o - 2));
     const i32 = () => ((o += 4), buf.readInt32BE(o - 4));
-    expect(i16()).toBe(8);
+    expect(i16()).toBe(7);
     expect(i32()).toBe(16);
     expect(buf.subarray(o, o + 16).toString("hex")).toBe("000000000000400080000000000000ab");
     o += 16;
@@ -42,11 +43,47 @@ describe("binary COPY encoding of records", () => {
     expect(i32()).toBe(8);
     expect(buf.readDoubleBE(o)).toBe(6.25);
     o += 8;
-    expect(i32()).toBe(2);
-    expect(i16()).toBe(1);
     expect(i32()).toBe(-1);
-    expect(i32()).toBe(2);
-    expect(i16()).toBe(9);
+    // bytea: one byte per FLAG_ORDER place, the build's variables at theirs and 0 elsewhere.
+    expect(i32()).toBe(FLAG_ORDER.length);
+    const flags = buf.subarray(o, o + FLAG_ORDER.length);
+    o += FLAG_ORDER.length;
+    expect(flags[flagIndex("wind_speed")]).toBe(1);
+    expect(flags[flagIndex("air_temperature")]).toBe(9);
+    expect([...flags].filter((f) => f !== 0)).toHaveLength(2);
     expect(o).toBe(buf.length);
+  });
+
+  test("rows of several platforms and a subset of rows: each row carries its own platform and flags", () => {
+    const enc = createRecordEncoder("00000000-0000-4000-8000-0000000000ab", 1, ["latitude"], ["A", "BB"]);
+    const buf = enc.encode({
+      n: 3,
+      time: Float64Array.of(1e9, 1e9 + 1, 1e9 + 2),
+      platform: Int32Array.of(0, 1, 0),
+      values: [Float64Array.of(10, 11, 12)],
+      flags: [Uint8Array.of(1, 3, 4)],
+      take: Int32Array.of(2, 1),
+      takeCount: 2,
+    });
+    const rows: { platform: string; lat: number; flag: number }[] = [];
+    let o = 0;
+    for (let r = 0; r < 2; r++) {
+      expect(buf.readInt16BE(o)).toBe(6);
+      o += 2 + 20;
+      const pl = buf.readInt32BE(o);
+      const platform = buf.toString("utf8", o + 4, o + 4 + pl);
+      o += 4 + pl + 12 + 8;
+      const lat = buf.readDoubleBE(o + 4);
+      o += 12;
+      const fl = buf.readInt32BE(o);
+      const flag = buf[o + 4 + flagIndex("latitude")]!;
+      o += 4 + fl;
+      rows.push({ platform, lat, flag });
+    }
+    expect(o).toBe(buf.length);
+    expect(rows).toEqual([
+      { platform: "A", lat: 12, flag: 4 },
+      { platform: "BB", lat: 11, flag: 3 },
+    ]);
   });
 });
