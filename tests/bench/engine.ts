@@ -5,12 +5,12 @@
  */
 import { createReadStream } from "node:fs";
 import { performance } from "node:perf_hooks";
-import Papa from "papaparse";
 import { columnMapSchema } from "../../shared/schemas/column-map";
 import { resolveQcSettings } from "../../shared/schemas/qc-settings";
 import { createCanonicalizer, ENGINE_SLICE, sliceChunk } from "../../shared/compute/canonical";
 import { createEngine } from "../../shared/compute/engine";
 import { demoMooringColumnMap } from "../../shared/demo/generate";
+import { parseDelimited } from "../../server/pipeline/read-csv";
 import type { BenchContext } from "./run";
 
 export async function run(ctx: BenchContext) {
@@ -35,7 +35,7 @@ export async function run(ctx: BenchContext) {
   let header = true;
   const step = (text: string) => {
     let t0 = performance.now();
-    const data = Papa.parse<string[]>(text, { delimiter: "," }).data;
+    const data = parseDelimited(text, ",");
     parseMs += performance.now() - t0;
     if (data.length && data[data.length - 1]!.length === 1 && data[data.length - 1]![0] === "") data.pop();
     let body = data;

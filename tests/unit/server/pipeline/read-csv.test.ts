@@ -3,7 +3,8 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { describe, expect, test } from "vitest";
 import { columnMapSchema } from "../../../../shared/schemas/column-map";
-import { openCanonicalStream } from "../../../../server/pipeline/read-csv";
+import Papa from "papaparse";
+import { openCanonicalStream, parseDelimited } from "../../../../server/pipeline/read-csv";
 
 const map = (delimiter: string) =>
   columnMapSchema.parse({
@@ -47,4 +48,21 @@ describe("openCanonicalStream", () => {
     const { speeds } = await read("time,wspd,wdir\r\n2026-09-01T00:00:00Z,20.0,225\r\n", ",");
     expect(speeds.map((v) => Number(v.toFixed(4)))).toEqual([10.2889]);
   });
+});
+
+// Reference: papaparse's documented `Papa.parse` on the same text (the library's own public entry point). The
+// pipeline calls the library's core parser directly; for every line ending and quoting case the rows must match.
+describe("parseDelimited reads as Papa.parse does", () => {
+  const cases: [string, string, string][] = [
+    ["LF", "time,wspd\n2026-10-01T00:00:00Z,5.1\n2026-10-01T00:00:01Z,5.2\n", ","],
+    ["CRLF", "time,wspd\r\n2026-10-01T00:00:00Z,5.1\r\n2026-10-01T00:00:01Z,5.2\r\n", ","],
+    ["CR only", "time;wspd\r2026-10-01T00:00:00Z;5,1\r", ";"],
+    ["quoted delimiter and doubled quote", 'time,note\n2026-10-01T00:00:00Z,"a, ""b"""\n', ","],
+    ["empty fields and an empty line", "a\tb\n\t\n\n1\t2\n", "\t"],
+    ["no line ending at the end", "a,b\n1,2", ","],
+  ];
+  for (const [name, text, delimiter] of cases)
+    test(name, () => {
+      expect(parseDelimited(text, delimiter)).toEqual(Papa.parse<string[]>(text, { delimiter }).data);
+    });
 });
