@@ -1,6 +1,7 @@
 import { pool } from "./db/client";
 import { jobs } from "./jobs";
 import { createQueue } from "./jobs/queue";
+import { listenForJobs } from "./jobs/wake-ups";
 import { logger } from "./lib/logger";
 
 /**
@@ -10,16 +11,22 @@ import { logger } from "./lib/logger";
 const boss = createQueue();
 boss.on("error", (err) => logger.error({ err }, "queue error"));
 await boss.start();
+const workerIds = new Map<string, string>();
 for (const job of jobs) {
   await boss.createQueue(job.name, job.queue ? { name: job.name, ...job.queue } : undefined);
-  await job.register(boss);
+  workerIds.set(job.name, await job.register(boss));
 }
+const wakeUps = listenForJobs((queue) => {
+  const id = workerIds.get(queue);
+  if (id) boss.notifyWorker(id);
+});
 logger.info(`worker ready; serving ${jobs.length ? jobs.map((j) => j.name).join(", ") : "no job types yet"}`);
 
 let stopping = false;
 const stop = async () => {
   if (stopping) return;
   stopping = true;
+  await wakeUps.stop();
   await boss.stop({ graceful: true, timeout: 10_000 }).catch(() => {});
   await pool.end().catch(() => {});
   process.exit(0);

@@ -31,7 +31,7 @@ export function enqueueBuild(versionId: string) {
 export const buildVersionJob: JobDefinition = {
   name: BUILD_VERSION,
   async register(boss) {
-    await boss.work<{ versionId: string }>(BUILD_VERSION, { pollingIntervalSeconds: 0.5, includeMetadata: true, batchSize: 1 }, async ([job]) => {
+    const workerId = await boss.work<{ versionId: string }>(BUILD_VERSION, { pollingIntervalSeconds: 0.5, includeMetadata: true, batchSize: 1 }, async ([job]) => {
       const log = logger.child({ job: BUILD_VERSION, jobId: job!.id });
       const { versionId } = buildVersionPayloadSchema.parse(job!.data);
       log.info({ versionId, retry: job!.retryCount }, `[${BUILD_VERSION}][${job!.id}] start`);
@@ -56,6 +56,7 @@ export const buildVersionJob: JobDefinition = {
     // Builds of a killed worker stay "active" in the queue; their heartbeat stops, so any worker fails them over.
     const monitor = setInterval(() => void failOverStaleBuilds(boss).catch((err) => logger.warn({ err }, "stale build check failed")), tuning.BUILD_MONITOR_EVERY_S * 1000);
     monitor.unref();
+    return workerId;
   },
 };
 

@@ -11,8 +11,8 @@ export interface JobDefinition {
   name: string;
   /** How its queue keeps jobs, when not pg-boss's standard policy (senders must create it the same way). */
   queue?: QueueSettings;
-  /** Registers the handler on the queue. */
-  register(boss: PgBoss): Promise<void>;
+  /** Registers the handler on the queue; returns pg-boss's id of the worker it started (for wake-ups). */
+  register(boss: PgBoss): Promise<string>;
 }
 
 /** Every job the worker serves. */

@@ -15,7 +15,7 @@ export const inspectUploadJob: JobDefinition = {
   name: INSPECT_UPLOAD,
   queue: INSPECT_UPLOAD_QUEUE,
   async register(boss) {
-    await boss.work<{ uploadId: string }>(INSPECT_UPLOAD, { pollingIntervalSeconds: 1, batchSize: 1 }, async ([job]) => {
+    return boss.work<{ uploadId: string }>(INSPECT_UPLOAD, { pollingIntervalSeconds: 1, batchSize: 1 }, async ([job]) => {
       const { uploadId } = payloadSchema.parse(job!.data);
       const t0 = performance.now();
       await inspectStoredUpload(uploadId);

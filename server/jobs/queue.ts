@@ -1,5 +1,14 @@
 import PgBoss from "pg-boss";
+import { pool } from "../db/client";
 import { env } from "../env";
+import { logger } from "../lib/logger";
+
+/**
+ * Channel on which senders announce a new job (payload: the queue name). Workers LISTEN and wake the queue's
+ * handler at once instead of at its next poll; polling stays as the fallback, so a lost notification costs one
+ * polling interval, never a job.
+ */
+export const JOB_CHANNEL = "tauline_jobs";
 
 /** The Postgres-backed job queue (pg-boss, schema "pgboss"). Every app server and worker shares it. */
 export function createQueue() {
@@ -31,7 +40,9 @@ export async function enqueue(name: string, data: object, options: PgBoss.SendOp
     await boss.createQueue(name, queue ? { name, ...queue } : undefined);
     created.add(name);
   }
-  return boss.send(name, data, options);
+  const id = await boss.send(name, data, options);
+  if (id) await pool.query(`select pg_notify($1, $2)`, [JOB_CHANNEL, name]).catch((err) => logger.warn({ err, queue: name }, "job wake-up not sent; a worker takes the job at its next poll"));
+  return id;
 }
 
 /** Stops the sending handle (tests and graceful shutdown). */

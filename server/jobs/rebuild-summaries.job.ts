@@ -50,7 +50,7 @@ export async function rebuildSummaries(versionId: string): Promise<boolean> {
 export const rebuildSummariesJob: JobDefinition = {
   name: REBUILD_SUMMARIES,
   async register(boss) {
-    await boss.work<{ versionId: string }>(REBUILD_SUMMARIES, { pollingIntervalSeconds: 1, batchSize: 1 }, async ([job]) => {
+    return boss.work<{ versionId: string }>(REBUILD_SUMMARIES, { pollingIntervalSeconds: 1, batchSize: 1 }, async ([job]) => {
       const { versionId } = payloadSchema.parse(job!.data);
       logger.info({ versionId }, `[${REBUILD_SUMMARIES}][${job!.id}] start`);
       const done = await rebuildSummaries(versionId);

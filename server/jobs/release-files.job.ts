@@ -78,7 +78,7 @@ export async function buildReleaseFiles(releaseId: string): Promise<string[]> {
 export const releaseFilesJob: JobDefinition = {
   name: RELEASE_FILES,
   async register(boss) {
-    await boss.work<{ releaseId: string }>(RELEASE_FILES, { pollingIntervalSeconds: 1, batchSize: 1 }, async ([job]) => {
+    return boss.work<{ releaseId: string }>(RELEASE_FILES, { pollingIntervalSeconds: 1, batchSize: 1 }, async ([job]) => {
       const { releaseId } = payloadSchema.parse(job!.data);
       logger.info({ releaseId }, `[${RELEASE_FILES}][${job!.id}] start`);
       const made = await buildReleaseFiles(releaseId);

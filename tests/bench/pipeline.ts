@@ -11,10 +11,10 @@ import { once } from "node:events";
 import { createReadStream, rmSync } from "node:fs";
 import { join } from "node:path";
 import { performance } from "node:perf_hooks";
-import Papa from "papaparse";
 import pg from "pg";
 import { from as copyFrom } from "pg-copy-streams";
 import { demoMooringColumnMap } from "../../shared/demo/generate";
+import { parseDelimited } from "../../server/pipeline/read-csv";
 import { benchUpload } from "./lib/month-version";
 import { startBenchWorker } from "./lib/worker";
 import type { BenchContext } from "./run";
@@ -36,7 +36,7 @@ async function baseline(url: string, csv: string): Promise<{ rows: number; secon
   let header = true;
   let rows = 0;
   const send = async (text: string) => {
-    const data = Papa.parse<string[]>(text, { delimiter: "," }).data;
+    const data = parseDelimited(text, ",");
     if (data.length && data[data.length - 1]!.length === 1 && data[data.length - 1]![0] === "") data.pop();
     const body = header ? data.slice(1) : data;
     header = false;
@@ -97,7 +97,7 @@ export async function run(ctx: BenchContext) {
   });
   let state = "processing";
   while (state === "processing") {
-    await sleep(100);
+    await sleep(25);
     state = (await pool.query(`select state from versions where id = $1`, [v.id])).rows[0].state;
   }
   const pipelineS = (performance.now() - t0) / 1000;
