@@ -12,8 +12,10 @@ import { countRows, makeMooringDataset, mooringMap, mooringText, startWorker, st
 let roles: Awaited<ReturnType<typeof makeProjectWithRoles>>;
 const workers: WorkerHandle[] = [];
 const day = Date.UTC(2026, 9, 1) / 1000;
-// A day at 1 Hz: long enough to interrupt mid-stream, short enough for a test.
-const text = mooringText({ start: day, durationS: 86400, intervalS: 1 });
+// Four days at 1 Hz: long enough to interrupt mid-stream (a build reports progress every 0.5 s and reads ~0.3 M
+// records per second), short enough for a test.
+const ROWS = 4 * 86400;
+const text = mooringText({ start: day, durationS: ROWS, intervalS: 1 });
 let reference = "";
 
 /** When a crash test fails, the workers' own log lines are what tell why. */
@@ -73,9 +75,9 @@ describe("crash safety", () => {
     workers.push(await startWorker());
     expect((await waitForVersion(versionId, ["ready", "failed"], 150_000)).state).toBe("ready");
     const d = await digest(datasetId);
-    expect(d.n).toBe(86400);
+    expect(d.n).toBe(ROWS);
     expect(d.h).toBe(reference);
-    expect(await countRows(datasetId)).toBe(86400);
+    expect(await countRows(datasetId)).toBe(ROWS);
     const run = await pool.query(`select attempt, state from qc_runs where version_id = $1`, [versionId]);
     expect(run.rows[0]).toMatchObject({ state: "succeeded" });
     expect(run.rows[0].attempt).toBeGreaterThanOrEqual(2);
@@ -89,7 +91,7 @@ describe("crash safety", () => {
     expect(cut.rowCount).toBe(1);
     expect((await waitForVersion(versionId, ["ready", "failed"], 150_000)).state).toBe("ready");
     const d = await digest(datasetId);
-    expect(d.n).toBe(86400);
+    expect(d.n).toBe(ROWS);
     expect(d.h).toBe(reference);
     const run = await pool.query(`select attempt from qc_runs where version_id = $1`, [versionId]);
     expect(run.rows[0].attempt).toBeGreaterThanOrEqual(2);
