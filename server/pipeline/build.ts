@@ -59,6 +59,7 @@ function seamWindowS(s: QcSettings): number {
   let w = 10 * dt;
   for (const q of Object.values(s.variables)) {
     if (q?.rateOfChange) w = Math.max(w, q.rateOfChange.windowS + 2 * dt);
+    if (q?.attenuatedSignal) w = Math.max(w, q.attenuatedSignal.windowS + 2 * dt);
     if (q?.flatLine) {
       const k = flatLineCounts(q.flatLine, s.timing.expectedIntervalS);
       w = Math.max(w, (Math.max(k.fail, k.suspect) + 2) * dt);

@@ -9,7 +9,7 @@ import { daysFromCivil as _daysFromCivil } from "./canonical";
 
 // Module-level copies: hot loops then call plain locals rather than going through import bindings.
 const { PASS, NOT_EVALUATED, SUSPECT, FAIL, MISSING } = FLAG;
-const { GAP: T_GAP, SYNTAX: T_SYNTAX, LOCATION: T_LOCATION, GROSS_RANGE: T_GROSS_RANGE, CLIMATOLOGY: T_CLIMATOLOGY, SPIKE: T_SPIKE, RATE_OF_CHANGE: T_RATE_OF_CHANGE, FLAT_LINE: T_FLAT_LINE, MULTI_VARIATE: T_MULTI_VARIATE, IMPLIED_SPEED: T_IMPLIED_SPEED } = TEST;
+const { GAP: T_GAP, SYNTAX: T_SYNTAX, LOCATION: T_LOCATION, GROSS_RANGE: T_GROSS_RANGE, CLIMATOLOGY: T_CLIMATOLOGY, SPIKE: T_SPIKE, RATE_OF_CHANGE: T_RATE_OF_CHANGE, FLAT_LINE: T_FLAT_LINE, MULTI_VARIATE: T_MULTI_VARIATE, IMPLIED_SPEED: T_IMPLIED_SPEED, ATTENUATED_SIGNAL: T_ATTENUATED_SIGNAL } = TEST;
 const aggregateFlag = _aggregateFlag;
 const W = _WORSE;
 const fromBearing = _fromBearing;
@@ -75,6 +75,10 @@ export interface RunSummary {
   notes: Record<string, number>;
 }
 
+/** How many QC tests have a bit (suspect bits 0–15, fail bits 16–31 of a tests word). */
+const N_TESTS = Object.keys(TEST).length;
+/** Every test's suspect and fail bits (not the calm bit). */
+const TEST_BITS = ((1 << N_TESTS) - 1) * 0x10001;
 const SUSPECT_BIT = (t: number) => 1 << t;
 const FAIL_BIT = (t: number) => 1 << (16 + t);
 /** Set on a wind direction word when the wind is calm: the direction is undefined and flagged 2. */
@@ -97,6 +101,8 @@ interface VarState {
   prev: number;
   // flat line: extremes of the last S and the last F values before the current one
   flat: FlatWindows | null;
+  // attenuated signal: range and count of the values of the trailing window
+  att: TimeWindowRange | null;
 }
 
 /**
@@ -142,6 +148,92 @@ export class FlatWindows {
     const seq = this.seen++;
     this.hi.push(seq, x);
     this.lo.push(seq, -x);
+  }
+}
+
+/**
+ * Range (largest − smallest) and count of the values pushed within the last `windowS` seconds, times
+ * (t − windowS, t] for the latest time t, for the attenuated-signal test. Monotonic deques of (time, value) for
+ * the largest and the smallest and a FIFO of times for the count: O(1) amortised per value however long the window.
+ * Times must not decrease.
+ */
+export class TimeWindowRange {
+  private readonly times = new Ring();
+  private readonly hi = new Ring();
+  private readonly lo = new Ring();
+
+  constructor(readonly windowS: number) {}
+
+  get count(): number {
+    return this.times.size;
+  }
+
+  /** Time of the oldest value still in the window (NaN when empty). */
+  oldest(): number {
+    return this.times.size ? this.times.frontT() : NaN;
+  }
+
+  /** Largest minus smallest of the window's values (NaN when empty). */
+  range(): number {
+    return this.hi.size ? this.hi.frontV() - this.lo.frontV() : NaN;
+  }
+
+  push(t: number, x: number): void {
+    const cut = t - this.windowS;
+    const { times, hi, lo } = this;
+    while (times.size && times.frontT() <= cut) times.shift();
+    while (hi.size && hi.frontT() <= cut) hi.shift();
+    while (lo.size && lo.frontT() <= cut) lo.shift();
+    times.push(t, 0);
+    while (hi.size && hi.backV() <= x) hi.pop();
+    hi.push(t, x);
+    while (lo.size && lo.backV() >= x) lo.pop();
+    lo.push(t, x);
+  }
+}
+
+/** A double-ended ring of (time, value) pairs that doubles as needed. */
+class Ring {
+  private t = new Float64Array(16);
+  private v = new Float64Array(16);
+  private mask = 15;
+  private head = 0;
+  size = 0;
+
+  frontT(): number {
+    return this.t[this.head]!;
+  }
+  frontV(): number {
+    return this.v[this.head]!;
+  }
+  backV(): number {
+    return this.v[(this.head + this.size - 1) & this.mask]!;
+  }
+  shift(): void {
+    this.head = (this.head + 1) & this.mask;
+    this.size--;
+  }
+  pop(): void {
+    this.size--;
+  }
+  push(t: number, x: number): void {
+    if (this.size > this.mask) {
+      const cap = (this.mask + 1) * 2;
+      const nt = new Float64Array(cap);
+      const nv = new Float64Array(cap);
+      for (let j = 0; j < this.size; j++) {
+        nt[j] = this.t[(this.head + j) & this.mask]!;
+        nv[j] = this.v[(this.head + j) & this.mask]!;
+      }
+      this.t = nt;
+      this.v = nv;
+      this.mask = cap - 1;
+      this.head = 0;
+    }
+    const k = (this.head + this.size) & this.mask;
+    this.t[k] = t;
+    this.v[k] = x;
+    this.size++;
   }
 }
 
@@ -227,6 +319,7 @@ function newVarState(q: VariableQc | undefined, flatK: { suspect: number; fail: 
     rocT: new Float64Array(q?.rateOfChange ? cap : 0), rocV: new Float64Array(q?.rateOfChange ? cap : 0),
     rocHead: 0, rocSize: 0, rocSum: 0, rocSq: 0, ref: NaN, prev: NaN,
     flat: flatK ? new FlatWindows(Math.min(flatK.suspect, flatK.fail), Math.max(flatK.suspect, flatK.fail)) : null,
+    att: q?.attenuatedSignal ? new TimeWindowRange(q.attenuatedSignal.windowS) : null,
   };
 }
 
@@ -238,7 +331,7 @@ function raiseAt(f: Uint8Array, t: Uint32Array, i: number, flag: number, test: n
 }
 
 /**
- * Spike, rate of change and flat line for one variable over records [from, n). The per-platform state lives in
+ * Spike, rate of change, flat line and attenuated signal for one variable over records [from, n). The per-platform state lives in
  * locals while a platform's run of records lasts and goes back to its VarState when the platform changes, so the
  * hot loop touches registers rather than objects. Records not accepted by the timing test are skipped.
  */
@@ -264,12 +357,15 @@ function windowPass(
   const flEps = flat ? flat.epsilon : 0;
   // Settings may ask for fail before suspect: then the shorter window already fails.
   const failFirst = flatK !== null && flatK.fail <= flatK.suspect;
+  const att = q.attenuatedSignal;
+  const atSuspect = att ? att.suspectBelow : 0, atFail = att ? att.failBelow : 0, atMin = att ? att.minCount : 0, atHalf = att ? att.windowS / 2 : 0;
   let lastP = -1;
   let vs: VarState | null = null;
   let p1 = 0, p2 = 0, p1Idx = 0, nPrev = 0;
   let rocT: Float64Array = new Float64Array(0), rocV: Float64Array = new Float64Array(0);
   let head = 0, size = 0, sum = 0, sq = 0, ref = 0, prev = 0, cap = 0;
   let fw: FlatWindows | null = null;
+  let aw: TimeWindowRange | null = null;
   for (let i = from; i < n; i++) {
     if (!acc[i]) continue;
     const p = plat[i]!;
@@ -284,6 +380,7 @@ function windowPass(
       p1 = vs.p1; p2 = vs.p2; p1Idx = vs.p1Idx; nPrev = vs.nPrev;
       rocT = vs.rocT; rocV = vs.rocV; head = vs.rocHead; size = vs.rocSize; sum = vs.rocSum; sq = vs.rocSq; ref = vs.ref; prev = vs.prev; cap = rocT.length;
       fw = vs.flat;
+      aw = vs.att;
     }
     const x = X[i]!;
     if (x !== x) {
@@ -353,6 +450,17 @@ function windowPass(
         raiseAt(F, T, i, failFirst && r !== PASS ? FAIL : r, T_FLAT_LINE);
       }
       fw.push(x);
+    }
+    if (aw) {
+      // The range of the trailing window's values (this one included) below a floor → fail, or suspect.
+      const t = time[i]!;
+      aw.push(t, x);
+      // Judged once the window is at least half covered, so the first minutes of a series or of the data after a
+      // gap are not taken for a dead sensor.
+      if (aw.count >= atMin && t - aw.oldest() >= atHalf) {
+        const r = aw.range();
+        raiseAt(F, T, i, r < atFail ? FAIL : r < atSuspect ? SUSPECT : PASS, T_ATTENUATED_SIGNAL);
+      }
     }
   }
   if (vs) {
@@ -690,7 +798,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
           raiseAt(F, T, i, x < clim.min[m]! || x > clim.max[m]! ? SUSPECT : PASS, T_CLIMATOLOGY);
         }
       }
-      if (q && (q.spike || q.rateOfChange || q.flatLine)) windowPass(X, time, acc, plat, F, T, from, n, platforms, k, q, flatKs[k]!);
+      if (q && (q.spike || q.rateOfChange || q.flatLine || q.attenuatedSignal)) windowPass(X, time, acc, plat, F, T, from, n, platforms, k, q, flatKs[k]!);
     }
   }
 
@@ -787,7 +895,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
           F[i] = a;
           T[i] = word;
           counts[a]++;
-          if (word & 0x03ff03ff) countTests(k, word);
+          if (word & TEST_BITS) countTests(k, word);
         }
       } else {
         for (let i = 0; i < m; i++) {
@@ -812,7 +920,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
           F[i] = a;
           T[i] = word;
           counts[a]++;
-          if (word & 0x03ff03ff) countTests(k, word);
+          if (word & TEST_BITS) countTests(k, word);
         }
       }
       block.values[v] = X;
@@ -867,7 +975,7 @@ export function createEngine(settings: QcSettings, ctx: DeploymentContext, input
   const derivedCounts = new Map<string, Float64Array>();
   const countTests = (k: number, word: number) => {
     const c = testCountArr[k]!;
-    for (let t = 0; t < 10; t++) {
+    for (let t = 0; t < N_TESTS; t++) {
       if (word & FAIL_BIT(t)) c[32 + t]++;
       else if (word & SUSPECT_BIT(t)) c[t]++;
     }

@@ -28,6 +28,7 @@ export const TEST = {
   FLAT_LINE: 7,
   MULTI_VARIATE: 8,
   IMPLIED_SPEED: 9,
+  ATTENUATED_SIGNAL: 10,
 } as const;
 /** Name of a QC test (key of TEST). */
 export type TestName = keyof typeof TEST;
@@ -46,6 +47,7 @@ export const testLabels: Record<TestName, string> = {
   FLAT_LINE: "flat_line",
   MULTI_VARIATE: "multi_variate",
   IMPLIED_SPEED: "implied_speed",
+  ATTENUATED_SIGNAL: "attenuated_signal",
 };
 
 /**

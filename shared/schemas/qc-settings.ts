@@ -36,6 +36,23 @@ const variableQcSchema = z.object({
       failAfterS: z.number().positive().nullable().default(null),
     })
     .nullable(),
+  /**
+   * Attenuated signal (QARTOD's suggested test, DOMAIN §11 #10): the range (largest − smallest) of the values in
+   * the trailing `windowS` seconds, this one included, below `failBelow` → 4, below `suspectBelow` → 3; evaluated
+   * once the window holds `minCount` values spanning at least half of it (so the start of a series or of the data
+   * after a gap is not judged on a few minutes). Catches a sensor that fouls or ices and stops following the signal
+   * without repeating one value exactly (which the flat-line test catches). Canonical units. Off by default: the
+   * handbook gives no numbers, and a sensible floor depends on the site and the sensor.
+   */
+  attenuatedSignal: z
+    .object({
+      windowS: z.number().positive(),
+      suspectBelow: z.number().nonnegative(),
+      failBelow: z.number().nonnegative(),
+      minCount: z.number().int().min(2),
+    })
+    .nullable()
+    .default(null),
 });
 export type VariableQc = z.infer<typeof variableQcSchema>;
 
@@ -78,7 +95,7 @@ export const qcSettingsSchema = z.object({
 });
 export type QcSettings = z.infer<typeof qcSettingsSchema>;
 
-const none: VariableQc = { sensor: null, user: null, climatology: null, spike: null, rateOfChange: null, flatLine: null };
+const none: VariableQc = { sensor: null, user: null, climatology: null, spike: null, rateOfChange: null, flatLine: null, attenuatedSignal: null };
 const r = (min: number | null, max: number | null) => ({ min, max });
 const roc = { n: 3, windowS: 25 * 3600, minCount: 3 }; // N = 3 over 25 h (DOMAIN §11, from memory)
 const K0 = 273.15;

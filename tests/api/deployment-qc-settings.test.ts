@@ -107,3 +107,39 @@ describe("the watch circle recorded on a mooring's deployment", () => {
     expect(wider.flags).toEqual([1, 1, 1, 1]);
   });
 });
+
+describe("the attenuated-signal test set on a deployment", () => {
+  test("flags an anemometer that stops following the wind, and the QC report names the test", async () => {
+    // DOMAIN §11 #10 (the suggested attenuated-signal test): the range over a trailing window below a floor. Three
+    // hours of lively 1-minute wind, then three hours where the sensor only creeps between 2.00 and 2.06 m/s
+    // (range 0.06 < the 0.1 fail floor). A 1-hour window, (t − 3600 s, t], holds this reading and the 59 before
+    // it, so the iced readings fail once none of those is lively: from 59 minutes after the stretch starts, 121
+    // readings; before that the window still spans at least 0.5 m/s and they pass.
+    const m = await makeMooringDataset(ctx.projectId);
+    const t0 = Date.UTC(2026, 10, 2) / 1000;
+    const iceAt = t0 + 3 * 3600;
+    const lines = ["time,wspd"];
+    for (let t = t0; t < t0 + 6 * 3600; t += 60) {
+      const k = (t - t0) / 60;
+      const ws = t < iceAt ? 8 + 3 * Math.sin(k / 7) + (k % 2 ? 1.5 : -1.5) : 2 + 0.03 * (k % 3);
+      lines.push(`${new Date(t * 1000).toISOString().replace(".000", "")},${ws.toFixed(2)}`);
+    }
+    const map = { ...demoMooringColumnMap(), columns: [{ column: "wspd", variable: "wind_speed", unit: "m s-1" }] };
+    const overrides = {
+      variables: { wind_speed: { spike: null, rateOfChange: null, flatLine: null, attenuatedSignal: { windowS: 3600, suspectBelow: 0.5, failBelow: 0.1, minCount: 3 } } },
+    };
+    const res = await as(ctx.users.contributor.cookie).patch(`/api/deployments/${m.deploymentId}/qc-settings`).send({ overrides });
+    expect(res.status).toBe(200);
+    const v = await buildVersionFromText(m.datasetId, ctx.users.contributor, `${lines.join("\n")}\n`, { map });
+    const { rows } = await pool.query(`select extract(epoch from time)::float8 as t, ${columnSql("wind_speed_qc")} from records where dataset_id = $1 and valid_to is null order by time`, [
+      m.datasetId,
+    ]);
+    expect(rows).toHaveLength(360);
+    const failFrom = iceAt + 59 * 60;
+    expect(rows.filter((r) => r.wind_speed_qc !== (r.t < failFrom ? 1 : 4))).toEqual([]);
+    const report = await as(ctx.users.curator.cookie).get(`/api/versions/${v.id}/qc-report`);
+    expect(report.status).toBe(200);
+    expect(report.body.tests).toContain("attenuated_signal");
+    expect(report.body.testCounts.wind_speed.attenuated_signal).toEqual([0, 121]);
+  });
+});

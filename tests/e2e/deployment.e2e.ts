@@ -66,6 +66,19 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
   await page.getByRole("button", { name: /^QC thresholds of deployment / }).first().click();
   await expect(page.getByLabel("Wind speed: suspect above")).toHaveValue("28");
 
+  // The attenuated-signal test is off until it has a window and floors; set, it is stored like the others.
+  const attWindow = page.getByLabel("Wind speed: attenuated signal window in hours");
+  await expect(attWindow).toHaveValue("");
+  await attWindow.fill("6");
+  await page.getByLabel("Wind speed: attenuated signal suspect below range").fill("0.5");
+  await page.getByLabel("Wind speed: attenuated signal fail below range").fill("0.2");
+  await page.getByRole("button", { name: "Save thresholds" }).click();
+  await expect(page.getByText(/QC thresholds of “.*” saved/).last()).toBeVisible();
+  await page.reload();
+  await page.getByRole("button", { name: /^QC thresholds of deployment / }).first().click();
+  await expect(page.getByLabel("Wind speed: attenuated signal window in hours")).toHaveValue("6");
+  await expect(page.getByLabel("Wind speed: attenuated signal fail below range")).toHaveValue("0.2");
+
   // A value that is not a number is named with its variable, and nothing is saved.
   await page.getByLabel("Wind speed: spike fail at").fill("lots");
   await page.getByRole("button", { name: "Save thresholds" }).click();

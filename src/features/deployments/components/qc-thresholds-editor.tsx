@@ -14,16 +14,16 @@ import { useDeploymentQcSettings, useUpdateDeploymentQcSettings } from "../api/q
 
 /**
  * The QC thresholds of one deployment, per variable, in canonical units: gross range (sensor → fail, user →
- * suspect), spike, rate of change and flat line. An empty pair switches that test off; only what differs from
+ * suspect), spike, rate of change, flat line and attenuated signal (off unless set). An empty pair switches that test off; only what differs from
  * Tauline's defaults is stored, so later changes to an untouched default still apply. Builds already made keep the
  * settings they used; the next build of a dataset on this deployment uses these.
  */
 
 /** The inputs of one variable's row, as typed. */
-const FIELDS = ["sensorMin", "sensorMax", "userMin", "userMax", "spikeSuspect", "spikeFail", "rocN", "rocWindowH", "flatEpsilon", "flatSuspectH", "flatFailH"] as const;
+const FIELDS = ["sensorMin", "sensorMax", "userMin", "userMax", "spikeSuspect", "spikeFail", "rocN", "rocWindowH", "flatEpsilon", "flatSuspectH", "flatFailH", "attWindowH", "attSuspect", "attFail"] as const;
 type Field = (typeof FIELDS)[number];
 type Row = Record<Field, string>;
-type Tests = Pick<VariableQc, "sensor" | "user" | "spike" | "rateOfChange" | "flatLine">;
+type Tests = Pick<VariableQc, "sensor" | "user" | "spike" | "rateOfChange" | "flatLine" | "attenuatedSignal">;
 
 /** Twelve significant digits: −60 °C in kelvin reads 213.15, not 213.14999999999998. */
 const text = (x: number | null | undefined) => (x === null || x === undefined ? "" : String(Number(x.toPrecision(12))));
@@ -36,6 +36,7 @@ const TEST_FIELDS: Record<keyof Tests, Field[]> = {
   spike: ["spikeSuspect", "spikeFail"],
   rateOfChange: ["rocN", "rocWindowH"],
   flatLine: ["flatEpsilon", "flatSuspectH", "flatFailH"],
+  attenuatedSignal: ["attWindowH", "attSuspect", "attFail"],
 };
 
 function rowOf(q: VariableQc): Row {
@@ -51,6 +52,9 @@ function rowOf(q: VariableQc): Row {
     flatEpsilon: text(q.flatLine?.epsilon),
     flatSuspectH: hours(q.flatLine?.suspectAfterS),
     flatFailH: hours(q.flatLine?.failAfterS),
+    attWindowH: hours(q.attenuatedSignal?.windowS),
+    attSuspect: text(q.attenuatedSignal?.suspectBelow),
+    attFail: text(q.attenuatedSignal?.failBelow),
   };
 }
 
@@ -80,6 +84,14 @@ function testsOf(r: Row, current: VariableQc): Tests {
           suspectAfterS: blank(r.flatSuspectH) ? null : seconds(r.flatSuspectH),
           failAfterS: blank(r.flatFailH) ? null : seconds(r.flatFailH),
         } as Tests["flatLine"]),
+    attenuatedSignal: blank(r.attWindowH, r.attSuspect, r.attFail)
+      ? null
+      : ({
+          windowS: seconds(r.attWindowH),
+          suspectBelow: num(r.attSuspect),
+          failBelow: num(r.attFail),
+          minCount: current.attenuatedSignal?.minCount ?? 3,
+        } as Tests["attenuatedSignal"]),
   };
 }
 
@@ -226,11 +238,21 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
     </span>
   );
 
+  /** One setting, then a suspect – fail pair (flat line, attenuated signal). */
+  const cellAndPair = (v: string, one: [Field, string], a: [Field, string], b: [Field, string]) => (
+    <span className="inline-flex items-center gap-1.5">
+      {cell(v, one[0], one[1])}
+      {pair(v, a[0], b[0], a[1], b[1])}
+    </span>
+  );
+
   return (
     <form onSubmit={onSubmit} className="flex flex-col gap-3">
       <p className="max-w-4xl text-sm text-muted">
-        Values are in each variable’s canonical unit (temperatures in kelvin, pressures in pascal, humidity as a fraction; rate-of-change windows and
-        flat-line durations in hours). A blank pair switches that test off; only what differs from Tauline’s defaults is stored. Versions already built keep
+        Values are in each variable’s canonical unit (temperatures in kelvin, pressures in pascal, humidity as a fraction; rate-of-change windows,
+        flat-line durations and attenuated-signal windows in hours). The attenuated-signal test flags a sensor whose readings stop moving — the range
+        over the window falls below a floor, as with a fouled or iced sensor — and is off until you give it a window and floors. A blank pair switches
+        that test off; only what differs from Tauline’s defaults is stored. Versions already built keep
         the settings they used; the next build of a dataset on this deployment uses these. The starting values are common practice for moored sensors:
         tune them to the site and its instruments.
       </p>
@@ -274,6 +296,7 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
               <Th unit="suspect – fail">Spike</Th>
               <Th unit="n·σ – window h">Rate of change</Th>
               <Th unit="within ε; suspect – fail h">Flat line</Th>
+              <Th unit="window h; range below: suspect – fail">Attenuated signal</Th>
             </tr>
           </thead>
           <tbody>
@@ -290,11 +313,14 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
                 <Td>{pair(v, "userMin", "userMax", "suspect below", "suspect above")}</Td>
                 <Td>{pair(v, "spikeSuspect", "spikeFail", "spike suspect at", "spike fail at")}</Td>
                 <Td>{pair(v, "rocN", "rocWindowH", "rate of change N", "rate of change window in hours")}</Td>
+                <Td>{cellAndPair(v, ["flatEpsilon", "flat line epsilon"], ["flatSuspectH", "flat line suspect after hours"], ["flatFailH", "flat line fail after hours"])}</Td>
                 <Td>
-                  <span className="inline-flex items-center gap-1.5">
-                    {cell(v, "flatEpsilon", "flat line epsilon")}
-                    {pair(v, "flatSuspectH", "flatFailH", "flat line suspect after hours", "flat line fail after hours")}
-                  </span>
+                  {cellAndPair(
+                    v,
+                    ["attWindowH", "attenuated signal window in hours"],
+                    ["attSuspect", "attenuated signal suspect below range"],
+                    ["attFail", "attenuated signal fail below range"],
+                  )}
                 </Td>
               </Tr>
             ))}

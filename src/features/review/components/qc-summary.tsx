@@ -26,6 +26,7 @@ const testWords: Record<string, string> = {
   FLAT_LINE: "flat line",
   MULTI_VARIATE: "multi-variate",
   IMPLIED_SPEED: "implied speed",
+  ATTENUATED_SIGNAL: "attenuated signal",
 };
 
 const int = (n: number) => Math.round(n).toLocaleString("en-GB").replace(/,/g, "\u202f");

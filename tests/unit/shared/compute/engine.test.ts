@@ -1,6 +1,6 @@
 import { describe, expect, test } from "vitest";
 import fc from "fast-check";
-import { createEngine, FlatWindows, runEngine, type EngineBlock } from "../../../../shared/compute/engine";
+import { createEngine, FlatWindows, runEngine, TimeWindowRange, type EngineBlock } from "../../../../shared/compute/engine";
 import { sliceChunk, type RecordChunk } from "../../../../shared/compute/canonical";
 import { FLAG, TEST, testRaised } from "../../../../shared/compute/flags";
 import { defaultQcSettings, type QcSettings } from "../../../../shared/schemas/qc-settings";
@@ -63,7 +63,7 @@ const seconds = (n: number, step = 600) => Array.from({ length: n }, (_, i) => 1
 describe("aggregate flags", () => {
   test("a missing value is 9, a value no test ran on is 2, otherwise the worst test flag", () => {
     const s = settingsWith((x) => {
-      x.variables.air_temperature = { sensor: null, user: null, climatology: null, spike: null, rateOfChange: null, flatLine: null };
+      x.variables.air_temperature = { sensor: null, user: null, climatology: null, spike: null, rateOfChange: null, flatLine: null, attenuatedSignal: null };
     });
     const { out } = run(s, mooring, chunk(seconds(3), { wind_speed: [5, NaN, 40], air_temperature: [290, 291, 292] }));
     expect(out.wind_speed_qc).toEqual([1, 9, 3]);
@@ -188,6 +188,66 @@ describe("window tests", () => {
       { numRuns: 300 },
     );
   });
+  test("attenuated signal: a trailing window whose range falls below the floors is suspect, then fail", () => {
+    // DOMAIN §11 #10 (QARTOD's suggested attenuated-signal test; the range form, from memory): range of the values
+    // in (t − window, t] below failBelow → 4, below suspectBelow → 3. Hand-worked: 1-minute wind, a 600 s window
+    // holds this value and the 9 before it.
+    const s = settingsWith((x) => {
+      x.timing.expectedIntervalS = 60;
+      const w = x.variables.wind_speed!;
+      w.spike = null;
+      w.rateOfChange = null;
+      w.flatLine = null;
+      w.attenuatedSignal = { windowS: 600, suspectBelow: 0.5, failBelow: 0.2, minCount: 5 };
+    });
+    // 0–19 swing between 4 and 6 (range 2); 20–39 between 5.0 and 5.3 (range 0.3); 40–59 between 5.0 and 5.1.
+    const ws = Array.from({ length: 60 }, (_, i) => (i < 20 ? 5 + (i % 2 ? 1 : -1) : i < 40 ? 5 + 0.3 * (i % 2) : 5 + 0.1 * (i % 2)));
+    const { out, summary } = run(s, mooring, chunk(seconds(60, 60), { wind_speed: ws }));
+    // From 29 the window (20–29) holds only the 0.3 band: suspect. Index 39 (5.3) stays in the window up to 48;
+    // from 49 the window is 40–49, range 0.1: fail.
+    const expected = ws.map((_, i) => (i < 29 ? 1 : i < 49 ? 3 : 4));
+    expect(out.wind_speed_qc).toEqual(expected);
+    expect(testRaised(out.wind_speed_tests![35]!, TEST.ATTENUATED_SIGNAL)).toBe(3);
+    expect(testRaised(out.wind_speed_tests![55]!, TEST.ATTENUATED_SIGNAL)).toBe(4);
+    expect(summary.testCounts.wind_speed!.ATTENUATED_SIGNAL).toEqual([20, 11]);
+    // A dead-still sensor from the first reading: judged (fail) only once the window spans half of it, 300 s,
+    // which at one value a minute is the sixth reading (index 5), though minCount 2 is reached at index 1.
+    const still = settingsWith((x) => {
+      x.variables.wind_speed = { ...x.variables.wind_speed!, spike: null, rateOfChange: null, flatLine: null, attenuatedSignal: { windowS: 600, suspectBelow: 0.5, failBelow: 0.2, minCount: 2 } };
+    });
+    expect(run(still, mooring, chunk(seconds(8, 60), { wind_speed: Array(8).fill(5) })).out.wind_speed_qc).toEqual([1, 1, 1, 1, 1, 4, 4, 4]);
+    // Fewer values than minCount in the window: not evaluated by this test (only gross range ran: pass).
+    const few = settingsWith((x) => {
+      x.variables.wind_speed = { ...x.variables.wind_speed!, spike: null, rateOfChange: null, flatLine: null, attenuatedSignal: { windowS: 600, suspectBelow: 0.5, failBelow: 0.2, minCount: 20 } };
+    });
+    expect(run(few, mooring, chunk(seconds(12, 60), { wind_speed: Array(12).fill(5) })).out.wind_speed_tests!.every((t) => testRaised(t, TEST.ATTENUATED_SIGNAL) === 0)).toBe(true);
+  });
+  test("the attenuated-signal window agrees with scanning the trailing values one by one", () => {
+    // Reference: the definition itself — largest minus smallest of the values with time in (t − window, t] — naively.
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 50 }),
+        fc.array(fc.tuple(fc.integer({ min: 0, max: 7 }), fc.integer({ min: -20, max: 20 })), { minLength: 1, maxLength: 300 }),
+        (windowS, steps) => {
+          const w = new TimeWindowRange(windowS);
+          const ts: number[] = [];
+          const xs: number[] = [];
+          let t = 0;
+          for (const [dt, x] of steps) {
+            t += dt;
+            ts.push(t);
+            xs.push(x / 4);
+            w.push(t, x / 4);
+            const inWin = xs.filter((_, j) => ts[j]! > t - windowS);
+            expect(w.count).toBe(inWin.length);
+            expect(w.oldest()).toBe(ts.find((u) => u > t - windowS));
+            expect(w.range()).toBe(Math.max(...inWin) - Math.min(...inWin));
+          }
+        },
+      ),
+      { numRuns: 300 },
+    );
+  });
   test("rate of change flags a step beyond N·σ of the trailing window", () => {
     const s = settingsWith((x) => {
       x.variables.air_pressure!.spike = null;
@@ -306,6 +366,7 @@ describe("streaming", () => {
         const s = settingsWith((x) => {
           x.timing.expectedIntervalS = 600;
           x.variables.air_pressure!.rateOfChange = { n: 2, windowS: 3000, minCount: 2 };
+          x.variables.wind_speed!.attenuatedSignal = { windowS: 3000, suspectBelow: 4, failBelow: 1, minCount: 3 };
         });
         const c = series(n, seed, platforms);
         const whole = run(s, ctx, c).out;
