@@ -94,6 +94,9 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
   await page.getByRole("button", { name: "Save thresholds" }).click();
   await expect(page.getByText(/Seawater density:/)).toBeVisible();
   await page.getByLabel("Seawater density (kg m-3)").fill("1026");
+  await page.getByLabel("Calm below (m s-1)").fill("0.5");
+  await page.getByLabel("Wind at 10 m").selectOption("log");
+  await page.getByLabel("Roughness length z0 (m)").fill("0.0005");
   await page.getByRole("button", { name: "Save thresholds" }).click();
   await expect(page.getByText(/QC thresholds of “.*” saved/).last()).toBeVisible();
   await page.reload();
@@ -101,11 +104,16 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
   await expect(page.getByLabel("Drag law")).toHaveValue("LY04");
   await expect(page.getByLabel("Air density", { exact: true })).toHaveValue("ideal_gas");
   await expect(page.getByLabel("Seawater density (kg m-3)")).toHaveValue("1026");
+  await expect(page.getByLabel("Calm below (m s-1)")).toHaveValue("0.5");
+  await expect(page.getByLabel("Wind at 10 m")).toHaveValue("log");
+  await expect(page.getByLabel("Roughness length z0 (m)")).toHaveValue("0.0005");
   await shot(page, "deployment-qc-site-settings");
 
   await page.getByRole("button", { name: "Back to defaults" }).click();
   await expect(page.getByText(/are back to the defaults/)).toBeVisible();
   await expect(page.getByLabel("Wind speed: suspect above")).toHaveValue("35");
   await expect(page.getByLabel("Drag law")).toHaveValue("LP81");
+  await expect(page.getByLabel("Calm below (m s-1)")).toHaveValue("1");
+  await expect(page.getByLabel("Wind at 10 m")).toHaveValue("drag");
   await expect(page.getByText("Tauline’s defaults: nothing changed for this deployment yet.")).toBeVisible();
 });

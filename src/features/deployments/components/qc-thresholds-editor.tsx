@@ -127,19 +127,54 @@ const AIR_DENSITY_OPTIONS = [
   { value: "ideal_gas", label: "from p, T and RH" },
 ];
 
-/** Deployment-wide settings shown above the table, as typed. */
-type Site = { intervalS: string; gapFactor: string; gapFlag: string; dragLaw: string; airMethod: string; airValue: string; seawaterDensity: string };
+const SITE_GRID = "grid grid-cols-2 gap-3 md:grid-cols-4 xl:grid-cols-6";
+const NEUTRAL_WIND_OPTIONS = [
+  { value: "power", label: "power law" },
+  { value: "log", label: "log law" },
+  { value: "drag", label: "iterated with the drag law" },
+];
 
-function siteOf(q: DeploymentQcSettings["settings"]): Site {
+type SiteSection = "timing" | "checks" | "diagnostics";
+/** Deployment-wide numbers: their path in the settings (group.key), label with unit, and where they are shown. */
+const SITE_NUMBERS: { path: string; label: string; hint?: string; section: SiteSection }[] = [
+  { path: "timing.expectedIntervalS", label: "Sampling interval (s)", hint: "Blank: taken from the file", section: "timing" },
+  { path: "timing.gapFactor", label: "Gap after (× interval)", section: "timing" },
+  { path: "multiVariate.calmSpeed", label: "Calm below (m s-1)", hint: "Wind direction is then not evaluated (2)", section: "checks" },
+  { path: "multiVariate.lightSpeed", label: "Light wind below (m s-1)", section: "checks" },
+  { path: "multiVariate.maxDirectionStepDeg", label: "Direction step in light wind (°)", hint: "A larger step between readings is suspect", section: "checks" },
+  { path: "impliedSpeed.suspect", label: "Drift speed: suspect (m s-1)", hint: "Speed between consecutive positions above this", section: "checks" },
+  { path: "impliedSpeed.fail", label: "Drift speed: fail (m s-1)", section: "checks" },
+  { path: "diagnostics.seawaterDensity", label: "Seawater density (kg m-3)", section: "diagnostics" },
+  { path: "diagnostics.equatorCutoffDeg", label: "Equator cut-off (° latitude)", hint: "Diagnostics divided by f are not evaluated nearer the equator", section: "diagnostics" },
+  { path: "diagnostics.eddyViscosity", label: "Eddy viscosity A_z (m2 s-1)", hint: "Theoretical Ekman depth and surface current", section: "diagnostics" },
+  { path: "diagnostics.ekmanDepthCoefficient", label: "Ekman depth coefficient", hint: "Empirical depth = coefficient · U10 / √sin|φ|", section: "diagnostics" },
+];
+type Settings = DeploymentQcSettings["settings"];
+const at = (q: Settings, path: string) => path.split(".").reduce<unknown>((o, k) => (o as Record<string, unknown> | null)?.[k], q) as number | null;
+
+/** Deployment-wide settings shown above the table, as typed: the numbers by path, and the choices. */
+type Site = {
+  numbers: Record<string, string>;
+  gapFlag: string;
+  dragLaw: string;
+  airMethod: string;
+  airValue: string;
+  neutralMethod: string;
+  powerExponent: string;
+  z0: string;
+};
+
+function siteOf(q: Settings): Site {
   const air = q.diagnostics.airDensity;
   return {
-    intervalS: text(q.timing.expectedIntervalS),
-    gapFactor: text(q.timing.gapFactor),
+    numbers: Object.fromEntries(SITE_NUMBERS.map((f) => [f.path, text(at(q, f.path))])),
     gapFlag: String(q.timing.gapFlag),
     dragLaw: q.diagnostics.dragLaw,
     airMethod: air.method,
     airValue: air.method === "fixed" ? text(air.value) : "",
-    seawaterDensity: text(q.diagnostics.seawaterDensity),
+    neutralMethod: q.diagnostics.neutralWind.method,
+    powerExponent: text(q.diagnostics.neutralWind.powerExponent),
+    z0: text(q.diagnostics.neutralWind.z0),
   };
 }
 
@@ -156,13 +191,16 @@ function setOrClear(out: Record<string, unknown>, group: string, key: string, ch
 function withSite(overrides: Record<string, unknown>, data: DeploymentQcSettings, site: Site): Record<string, unknown> {
   const out = structuredClone(overrides);
   const d = siteOf(data.defaults);
-  setOrClear(out, "timing", "expectedIntervalS", site.intervalS.trim() !== d.intervalS, num(site.intervalS));
-  setOrClear(out, "timing", "gapFactor", site.gapFactor.trim() !== d.gapFactor, num(site.gapFactor));
+  for (const { path } of SITE_NUMBERS) {
+    const [group, key] = path.split(".") as [string, string];
+    setOrClear(out, group, key, site.numbers[path]!.trim() !== d.numbers[path], num(site.numbers[path]!));
+  }
   setOrClear(out, "timing", "gapFlag", site.gapFlag !== d.gapFlag, Number(site.gapFlag));
   setOrClear(out, "diagnostics", "dragLaw", site.dragLaw !== d.dragLaw, site.dragLaw);
   const airChanged = site.airMethod !== d.airMethod || (site.airMethod === "fixed" && site.airValue.trim() !== d.airValue);
   setOrClear(out, "diagnostics", "airDensity", airChanged, site.airMethod === "fixed" ? { method: "fixed", value: num(site.airValue) } : { method: "ideal_gas" });
-  setOrClear(out, "diagnostics", "seawaterDensity", site.seawaterDensity.trim() !== d.seawaterDensity, num(site.seawaterDensity));
+  const neutralChanged = site.neutralMethod !== d.neutralMethod || site.powerExponent.trim() !== d.powerExponent || site.z0.trim() !== d.z0;
+  setOrClear(out, "diagnostics", "neutralWind", neutralChanged, { method: site.neutralMethod, powerExponent: num(site.powerExponent), z0: num(site.z0) });
   return out;
 }
 
@@ -173,11 +211,12 @@ const shown = (d: DeploymentQcSettings) =>
     return q.sensor || q.user || q.spike || q.rateOfChange || q.flatLine;
   });
 
+/** Error paths of the deployment-wide settings → their labels (without units). */
 const SITE_LABELS: Record<string, string> = {
-  "timing.expectedIntervalS": "Sampling interval",
-  "timing.gapFactor": "Gap after",
+  ...Object.fromEntries(SITE_NUMBERS.map((f) => [f.path, f.label.replace(/ \(.*\)$/, "")])),
   "diagnostics.airDensity.value": "Air density",
-  "diagnostics.seawaterDensity": "Seawater density",
+  "diagnostics.neutralWind.powerExponent": "Power-law exponent",
+  "diagnostics.neutralWind.z0": "Roughness length z0",
 };
 
 /** "overrides.variables.wind_speed.spike.fail" → "Wind speed, spike fail: …" */
@@ -238,6 +277,17 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
     </span>
   );
 
+  const numbers = (section: SiteSection) =>
+    SITE_NUMBERS.filter((f) => f.section === section).map((f) => (
+      <TextField
+        key={f.path}
+        label={f.label}
+        hint={f.hint}
+        inputMode="decimal"
+        value={site.numbers[f.path]}
+        onChange={(e) => setSite({ ...site, numbers: { ...site.numbers, [f.path]: e.target.value } })}
+      />
+    ));
   /** One setting, then a suspect – fail pair (flat line, attenuated signal). */
   const cellAndPair = (v: string, one: [Field, string], a: [Field, string], b: [Field, string]) => (
     <span className="inline-flex items-center gap-1.5">
@@ -256,16 +306,17 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
         the settings they used; the next build of a dataset on this deployment uses these. The starting values are common practice for moored sensors:
         tune them to the site and its instruments.
       </p>
-      <fieldset className="grid grid-cols-2 gap-3 md:grid-cols-4 xl:grid-cols-7" disabled={!canEdit}>
-        <legend className="sr-only">Sampling, gaps and diagnostics</legend>
-        <TextField label="Sampling interval (s)" hint="Blank: taken from the file" inputMode="decimal" value={site.intervalS} onChange={(e) => setSite({ ...site, intervalS: e.target.value })} />
-        <TextField label="Gap after (× interval)" inputMode="decimal" value={site.gapFactor} onChange={(e) => setSite({ ...site, gapFactor: e.target.value })} />
-        <SelectField
-          label="A gap is flagged"
-          options={GAP_FLAG_OPTIONS}
-          value={site.gapFlag}
-          onChange={(e) => setSite({ ...site, gapFlag: e.target.value })}
-        />
+      <fieldset className={SITE_GRID} disabled={!canEdit}>
+        <legend className="mb-1 text-sm font-semibold">Sampling and gaps</legend>
+        {numbers("timing")}
+        <SelectField label="A gap is flagged" options={GAP_FLAG_OPTIONS} value={site.gapFlag} onChange={(e) => setSite({ ...site, gapFlag: e.target.value })} />
+      </fieldset>
+      <fieldset className={SITE_GRID} disabled={!canEdit}>
+        <legend className="mb-1 text-sm font-semibold">Wind direction and drifter checks</legend>
+        {numbers("checks")}
+      </fieldset>
+      <fieldset className={SITE_GRID} disabled={!canEdit}>
+        <legend className="mb-1 text-sm font-semibold">Diagnostics</legend>
         <SelectField
           label="Drag law"
           hint={dragLawSources[site.dragLaw as keyof typeof dragLawSources]?.split(";")[0]}
@@ -273,18 +324,23 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
           value={site.dragLaw}
           onChange={(e) => setSite({ ...site, dragLaw: e.target.value })}
         />
-        <SelectField
-          label="Air density"
-          options={AIR_DENSITY_OPTIONS}
-          value={site.airMethod}
-          onChange={(e) => setSite({ ...site, airMethod: e.target.value })}
-        />
+        <SelectField label="Air density" options={AIR_DENSITY_OPTIONS} value={site.airMethod} onChange={(e) => setSite({ ...site, airMethod: e.target.value })} />
         {site.airMethod === "fixed" ? (
           <TextField label="Air density (kg m-3)" inputMode="decimal" value={site.airValue} onChange={(e) => setSite({ ...site, airValue: e.target.value })} />
-        ) : (
-          <div />
-        )}
-        <TextField label="Seawater density (kg m-3)" inputMode="decimal" value={site.seawaterDensity} onChange={(e) => setSite({ ...site, seawaterDensity: e.target.value })} />
+        ) : null}
+        <SelectField
+          label="Wind at 10 m"
+          hint="How the wind at the anemometer becomes the equivalent-neutral 10 m wind"
+          options={NEUTRAL_WIND_OPTIONS}
+          value={site.neutralMethod}
+          onChange={(e) => setSite({ ...site, neutralMethod: e.target.value })}
+        />
+        {site.neutralMethod === "power" ? (
+          <TextField label="Power-law exponent" inputMode="decimal" value={site.powerExponent} onChange={(e) => setSite({ ...site, powerExponent: e.target.value })} />
+        ) : site.neutralMethod === "log" ? (
+          <TextField label="Roughness length z0 (m)" inputMode="decimal" value={site.z0} onChange={(e) => setSite({ ...site, z0: e.target.value })} />
+        ) : null}
+        {numbers("diagnostics")}
       </fieldset>
       <div className="overflow-x-auto">
         <Table caption={`QC thresholds of ${deploymentName}`}>
