@@ -1,3 +1,4 @@
+import "../shared/schemas/messages";
 import { Command, InvalidArgumentError } from "commander";
 import { InputError } from "./lib/read-csv";
 import { runCheck } from "./check";

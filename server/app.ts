@@ -1,3 +1,4 @@
+import "@shared/schemas/messages";
 import { existsSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import express, { type Express, type RequestHandler } from "express";

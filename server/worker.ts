@@ -1,3 +1,4 @@
+import "@shared/schemas/messages";
 import { pool } from "./db/client";
 import { jobs } from "./jobs";
 import { createQueue } from "./jobs/queue";

@@ -1,6 +1,7 @@
 import "@fontsource-variable/source-sans-3";
 import "./styles/fonts.css";
 import "./index.css";
+import "@shared/schemas/messages";
 import { StrictMode } from "react";
 import { createRoot } from "react-dom/client";
 import { AppProvider } from "@/app/provider";

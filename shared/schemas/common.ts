@@ -1,4 +1,5 @@
 import { z } from "zod";
+import "./messages";
 
 export const idSchema = z.uuid({ message: "Must be a valid id" });
 export const idParamsSchema = z.object({ id: idSchema });

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import "./messages";
 import { measuredVariables, type MeasuredVariable } from "../vocabulary";
 import { dragLaws, neutralWindMethods } from "../compute/physics";
 

@@ -64,6 +64,12 @@ describe("deployment QC settings", () => {
     expect(Object.keys(res.body.error.details)).toEqual(["overrides.variables.wind_speed.spike.suspect"]);
   });
 
+  test("a threshold typed as text is named by its path in plain words", async () => {
+    const res = await as(ctx.users.curator.cookie).patch(url()).send({ overrides: { variables: { wind_speed: { spike: { suspect: 8, fail: "lots" } } } } });
+    expect(res.status).toBe(400);
+    expect(res.body.error.details).toEqual({ "overrides.variables.wind_speed.spike.fail": ["Must be a number, not “lots”"] });
+  });
+
   test("an empty object goes back to the defaults", async () => {
     const res = await as(ctx.users.curator.cookie).patch(url()).send({ overrides: {} });
     expect(res.status).toBe(200);
