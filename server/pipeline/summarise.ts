@@ -87,9 +87,14 @@ export function createSummariser(variables: readonly string[], units: readonly s
   const nv = variables.length;
   const platforms = new Map<string, PlatformAcc>();
   const flagCounts = variables.map(() => new Float64Array(10));
+  // Statistics by shifted sums: Σ(x − K) and Σ(x − K)² with K the variable's first counted value. Welford's
+  // update divides on every value along one dependency chain (~0.6 s of a month at 1 Hz); shifted sums only add,
+  // and with K inside the data's range they keep its precision (Chan, Golub & LeVeque 1983, "Algorithms for
+  // computing the sample variance", The American Statistician 37(3); from memory).
   const count = new Float64Array(nv);
-  const mean = new Float64Array(nv);
-  const m2 = new Float64Array(nv);
+  const shift = new Float64Array(nv).fill(NaN);
+  const sum1 = new Float64Array(nv);
+  const sum2 = new Float64Array(nv);
   const min = new Float64Array(nv).fill(Infinity);
   const max = new Float64Array(nv).fill(-Infinity);
   const maxGap = intervalS ? intervalS * gapFactor : Infinity;
@@ -174,7 +179,7 @@ export function createSummariser(variables: readonly string[], units: readonly s
           fc[9]! += to - from;
           continue;
         }
-        let c = count[v]!, mu = mean[v]!, s2 = m2[v]!, lo = min[v]!, hi = max[v]!;
+        let c = count[v]!, k0 = shift[v]!, s1 = sum1[v]!, s2 = sum2[v]!, lo = min[v]!, hi = max[v]!;
         const mn1 = b1.min[v]!, mx1 = b1.max[v]!, sm1 = b1.sum[v]!, n1 = b1.n[v]!, w1 = b1.worst[v]!;
         for (let k = from; k < to; k++) {
           const i = idx[k]!;
@@ -183,10 +188,11 @@ export function createSummariser(variables: readonly string[], units: readonly s
           const x = X[i]!;
           if (x !== x) continue;
           if (f <= 2) {
+            if (c === 0) k0 = x;
             c++;
-            const d = x - mu;
-            mu += d / c;
-            s2 += d * (x - mu);
+            const d = x - k0;
+            s1 += d;
+            s2 += d * d;
             if (x < lo) lo = x;
             if (x > hi) hi = x;
           }
@@ -198,8 +204,9 @@ export function createSummariser(variables: readonly string[], units: readonly s
           if (f > w1[j1]! && f !== 9) w1[j1] = f;
         }
         count[v] = c;
-        mean[v] = mu;
-        m2[v] = s2;
+        shift[v] = k0;
+        sum1[v] = s1;
+        sum2[v] = s2;
         min[v] = lo;
         max[v] = hi;
       }
@@ -228,8 +235,8 @@ export function createSummariser(variables: readonly string[], units: readonly s
           count: c,
           min: c ? min[v]! : null,
           max: c ? max[v]! : null,
-          mean: c ? mean[v]! : null,
-          std: c > 1 ? Math.sqrt(m2[v]! / (c - 1)) : null,
+          mean: c ? shift[v]! + sum1[v]! / c : null,
+          std: c > 1 ? Math.sqrt(Math.max(0, sum2[v]! - (sum1[v]! * sum1[v]!) / c) / (c - 1)) : null,
           flags: Array.from(fc),
         };
       });
