@@ -74,7 +74,10 @@ export const flagSql = (variable: string, row = "") => `record_flag(${row}flags,
  */
 export function setFlagsSql(changes: { variable: string; value: string }[], row = ""): string {
   let out = `${row}flags`;
-  for (const c of changes) out = `set_byte(${out}, ${flagIndex(c.variable)}, coalesce((${c.value})::int, get_byte(${row}flags, ${flagIndex(c.variable)})))`;
+  for (const c of changes) {
+    const i = flagIndex(c.variable);
+    out = `set_byte(${out}, ${i}, coalesce((${c.value})::int, get_byte(${row}flags, ${i})))`;
+  }
   return out;
 }
 

@@ -41,7 +41,10 @@ export async function enqueue(name: string, data: object, options: PgBoss.SendOp
     created.add(name);
   }
   const id = await boss.send(name, data, options);
-  if (id) await pool.query(`select pg_notify($1, $2)`, [JOB_CHANNEL, name]).catch((err) => logger.warn({ err, queue: name }, "job wake-up not sent; a worker takes the job at its next poll"));
+  if (id)
+    await pool
+      .query(`select pg_notify($1, $2)`, [JOB_CHANNEL, name])
+      .catch((err) => logger.warn({ err, queue: name }, "job wake-up not sent; a worker takes the job at its next poll"));
   return id;
 }
 

@@ -18,11 +18,12 @@ import { assertProjectAccess } from "./access";
 import { isKnownVariable } from "./explore";
 
 /**
- * Annotations and manual flags. A flag annotation sets a variable's flag (its byte of `flags`) over its time range in the dataset's editable
- * version (ready or changes requested) and in every later build (the pipeline calls `applyManualFlags`). Records are
- * shared between versions, so a row an earlier version also sees is never changed in place: it is closed at this
- * version (valid_to = N) and a flagged copy starts here (valid_from = N), in the caller's transaction. The flag a
- * manual one replaced is kept in manual_flag_originals, so editing or deleting the annotation gives it back.
+ * Annotations and manual flags. A flag annotation sets a variable's flag (its byte of `flags`) over its time range in
+ * the dataset's editable version (ready or changes requested) and in every later build (the pipeline calls
+ * `applyManualFlags`). Records are shared between versions, so a row an earlier version also sees is never changed
+ * in place: it is closed at this version (valid_to = N) and a flagged copy starts here (valid_from = N), in the
+ * caller's transaction. The flag a manual one replaced is kept in manual_flag_originals, so editing or deleting the
+ * annotation gives it back.
  */
 
 /** Version states whose records a manual flag may change now. */
