@@ -5,12 +5,15 @@ import { JOB_CHANNEL } from "./queue";
 
 /**
  * Listens on the job channel with a connection of its own and calls `wake` with each announced queue name. A lost
- * connection is opened again after a second; meanwhile the workers' polling picks jobs up as before.
+ * connection is opened again after a second, then after twice as long each time it fails again (up to 30 s, so an
+ * outage does not flood the log); meanwhile the workers' polling picks jobs up as before.
  */
 export function listenForJobs(wake: (queue: string) => void, opts: { applicationName?: string; retryMs?: number } = {}) {
   let client: pg.Client | null = null;
   let stopped = false;
   let retry: NodeJS.Timeout | undefined;
+  const firstDelay = opts.retryMs ?? 1000;
+  let delay = firstDelay;
 
   const connect = async () => {
     const c = new pg.Client({ connectionString: env.DATABASE_URL, application_name: opts.applicationName ?? "tauline-worker-wake-ups" });
@@ -19,8 +22,9 @@ export function listenForJobs(wake: (queue: string) => void, opts: { application
       client = null;
       c.end().catch(() => undefined);
       if (stopped) return;
-      logger.warn({ err }, "job wake-up connection lost; polling only until it is back");
-      retry = setTimeout(() => void connect(), opts.retryMs ?? 1000);
+      if (delay === firstDelay) logger.warn({ err }, "job wake-up connection lost; polling only until it is back");
+      retry = setTimeout(() => void connect(), delay);
+      delay = Math.min(delay * 2, 30_000);
       retry.unref();
     };
     c.on("error", lost);
@@ -32,6 +36,8 @@ export function listenForJobs(wake: (queue: string) => void, opts: { application
     try {
       await c.connect();
       await c.query(`listen ${JOB_CHANNEL}`);
+      if (delay !== firstDelay) logger.info("job wake-up connection back");
+      delay = firstDelay;
     } catch (err) {
       lost(err as Error);
     }
