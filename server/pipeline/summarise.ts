@@ -181,10 +181,15 @@ export function createSummariser(variables: readonly string[], units: readonly s
         }
         let c = count[v]!, k0 = shift[v]!, s1 = sum1[v]!, s2 = sum2[v]!, lo = min[v]!, hi = max[v]!;
         const mn1 = b1.min[v]!, mx1 = b1.max[v]!, sm1 = b1.sum[v]!, n1 = b1.n[v]!, w1 = b1.worst[v]!;
+        // The current bucket and the pass count live in locals while rows stay in them (a minute holds 60 rows at
+        // 1 Hz), so the loop does not go through memory for every row; same additions in the same order.
+        let passed = 0;
+        let j = -1, bMin = 0, bMax = 0, bSum = 0, bN = 0, bW = 0;
         for (let k = from; k < to; k++) {
           const i = idx[k]!;
           const f = F[i]!;
-          fc[f]!++;
+          if (f === 1) passed++;
+          else fc[f]!++;
           const x = X[i]!;
           if (x !== x) continue;
           if (f <= 2) {
@@ -197,12 +202,35 @@ export function createSummariser(variables: readonly string[], units: readonly s
             if (x > hi) hi = x;
           }
           const j1 = bucketOf[k - from]!;
-          if (x < mn1[j1]!) mn1[j1] = x;
-          if (x > mx1[j1]!) mx1[j1] = x;
-          sm1[j1]! += x;
-          n1[j1]!++;
-          if (f > w1[j1]! && f !== 9) w1[j1] = f;
+          if (j1 !== j) {
+            if (j >= 0) {
+              mn1[j] = bMin;
+              mx1[j] = bMax;
+              sm1[j] = bSum;
+              n1[j] = bN;
+              w1[j] = bW;
+            }
+            j = j1;
+            bMin = mn1[j]!;
+            bMax = mx1[j]!;
+            bSum = sm1[j]!;
+            bN = n1[j]!;
+            bW = w1[j]!;
+          }
+          if (x < bMin) bMin = x;
+          if (x > bMax) bMax = x;
+          bSum += x;
+          bN++;
+          if (f > bW && f !== 9) bW = f;
         }
+        if (j >= 0) {
+          mn1[j] = bMin;
+          mx1[j] = bMax;
+          sm1[j] = bSum;
+          n1[j] = bN;
+          w1[j] = bW;
+        }
+        fc[1]! += passed;
         count[v] = c;
         shift[v] = k0;
         sum1[v] = s1;
