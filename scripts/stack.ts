@@ -48,7 +48,6 @@ if (process.env.FRESH_DB === "1") {
   await c.end();
 }
 run(process.execPath, ["--import", "tsx", "server/db/migrate.ts"]);
-if (demo) run(process.execPath, ["--import", "tsx", "server/db/seed.ts"]);
 
 const children: { name: string; proc: ChildProcess }[] = [];
 function start(name: string, entry: string) {
@@ -60,6 +59,21 @@ function start(name: string, entry: string) {
     }
   });
   children.push({ name, proc });
+}
+
+/** Waits until something accepts TCP connections on 127.0.0.1:port (up to 30 s). */
+async function waitForPort(p: number, what: string) {
+  const { connect } = await import("node:net");
+  for (let i = 0; i < 120 && !stopping; i++) {
+    const up = await new Promise<boolean>((resolve) => {
+      const sock = connect(p, "127.0.0.1");
+      sock.once("connect", () => (sock.destroy(), resolve(true)));
+      sock.once("error", () => resolve(false));
+    });
+    if (up) return;
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  if (!stopping) say(`${what} did not start listening on ${p}; going on without it`);
 }
 
 let stopping = false;
@@ -85,7 +99,10 @@ async function shutdown(code: number) {
 process.on("SIGINT", () => void shutdown(0));
 process.on("SIGTERM", () => void shutdown(0));
 
+// Mail first: the demo seed's curation steps send notifications, which the fake SMTP server must take.
 start("mail", "server/mail/smtp-main.ts");
+await waitForPort(Number(smtpPort), "the fake SMTP server");
+if (demo) run(process.execPath, ["--import", "tsx", "server/db/seed.ts"]);
 start("api", "server/index.ts");
 start("worker", "server/worker.ts");
 
