@@ -131,7 +131,7 @@ const SITE_GRID = "grid grid-cols-2 gap-3 md:grid-cols-4 xl:grid-cols-6";
 const NEUTRAL_WIND_OPTIONS = [
   { value: "power", label: "power law" },
   { value: "log", label: "log law" },
-  { value: "drag", label: "iterated with the drag law" },
+  { value: "drag", label: "with the drag law" },
 ];
 
 type SiteSection = "timing" | "checks" | "diagnostics";
