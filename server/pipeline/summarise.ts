@@ -48,6 +48,15 @@ export interface Gap {
   to: number;
 }
 
+/** Writes one plot bucket's running min, max, sum, count and worst flag back to its arrays. */
+function putBucket(mn: Float64Array, mx: Float64Array, sm: Float64Array, nn: Float64Array, w: Uint8Array, j: number, lo: number, hi: number, sum: number, n: number, worst: number) {
+  mn[j] = lo;
+  mx[j] = hi;
+  sm[j] = sum;
+  nn[j] = n;
+  w[j] = worst;
+}
+
 /** Folds fine buckets into coarser ones (step a multiple of the fine step). O(fine buckets × variables). */
 function foldBuckets(f: Buckets, step: number, nv: number): Buckets {
   const t0 = Math.floor(f.t0 / step) * step;
@@ -203,13 +212,7 @@ export function createSummariser(variables: readonly string[], units: readonly s
           }
           const j1 = bucketOf[k - from]!;
           if (j1 !== j) {
-            if (j >= 0) {
-              mn1[j] = bMin;
-              mx1[j] = bMax;
-              sm1[j] = bSum;
-              n1[j] = bN;
-              w1[j] = bW;
-            }
+            if (j >= 0) putBucket(mn1, mx1, sm1, n1, w1, j, bMin, bMax, bSum, bN, bW);
             j = j1;
             bMin = mn1[j]!;
             bMax = mx1[j]!;
@@ -223,13 +226,7 @@ export function createSummariser(variables: readonly string[], units: readonly s
           bN++;
           if (f > bW && f !== 9) bW = f;
         }
-        if (j >= 0) {
-          mn1[j] = bMin;
-          mx1[j] = bMax;
-          sm1[j] = bSum;
-          n1[j] = bN;
-          w1[j] = bW;
-        }
+        if (j >= 0) putBucket(mn1, mx1, sm1, n1, w1, j, bMin, bMax, bSum, bN, bW);
         fc[1]! += passed;
         count[v] = c;
         shift[v] = k0;
