@@ -331,9 +331,10 @@ function raiseAt(f: Uint8Array, t: Uint32Array, i: number, flag: number, test: n
 }
 
 /**
- * Spike, rate of change, flat line and attenuated signal for one variable over records [from, n). The per-platform state lives in
- * locals while a platform's run of records lasts and goes back to its VarState when the platform changes, so the
- * hot loop touches registers rather than objects. Records not accepted by the timing test are skipped.
+ * Spike, rate of change, flat line and attenuated signal for one variable over records [from, n). The per-platform
+ * state lives in locals while a platform's run of records lasts and goes back to its VarState when the platform
+ * changes, so the hot loop touches registers rather than objects. Records not accepted by the timing test are
+ * skipped.
  */
 function windowPass(
   X: Float64Array,
