@@ -19,7 +19,7 @@ import { qcFlagMeanings, qcLevelFlags, type DownloadFormat, type DownloadQuery, 
 import { builtVersionStates } from "@shared/schemas/versions";
 import { derivedVocabulary, derivedVariables, measuredVariables, vocabulary, type MeasuredVariable } from "@shared/vocabulary";
 import { db, pool } from "../db/client";
-import { flagSql } from "../db/record-flags";
+import { columnSql, flagSql } from "../db/record-flags";
 import { datasets, projects, releases, versions } from "../db/schema";
 import { env } from "../env";
 import { AppError, notFound, unauthenticated } from "../lib/errors";
@@ -207,7 +207,7 @@ export function downloadSql(plan: DownloadPlan, style: "csv" | "rows"): string {
   for (const v of plan.variables) {
     const c = ident(v.name);
     const f = flagSql(v.name);
-    cols.push(accepted ? `case when ${f} in (${accepted}) then ${c} end as ${c}` : c, `${f} as ${ident(v.name).replace(/"$/, '_qc"')}`);
+    cols.push(accepted ? `case when ${f} in (${accepted}) then ${c} end as ${c}` : c, columnSql(`${v.name}_qc`));
   }
   // Decimation counts records of the time range; the QC level then drops rows with no accepted value left.
   const qcWhere = accepted && plan.variables.length ? [`(${plan.variables.map((v) => `${flagSql(v.name)} in (${accepted})`).join(" or ")})`] : [];

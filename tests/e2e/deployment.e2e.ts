@@ -1,4 +1,4 @@
-import { expect, test } from "@playwright/test";
+import { expect, test, type Page } from "@playwright/test";
 import { demo, shot, signIn } from "./helpers";
 
 test("a contributor signs in, opens a platform and records a new deployment", async ({ page }) => {
@@ -45,12 +45,15 @@ test("a visitor sees the public catalogue and is sent to sign in for members' pa
   await expect(page).toHaveURL(/sign-in/);
 });
 
+/** Opens the QC thresholds editor of the platform page's first deployment. */
+const openThresholds = (page: Page) => page.getByRole("button", { name: /^QC thresholds of deployment / }).first().click();
+
 test("a contributor tightens a deployment's wind-speed thresholds, sees a bad value named, and goes back to the defaults", async ({ page }) => {
   await signIn(page, demo.contributor);
   await page.getByRole("link", { name: "My projects" }).click();
   await page.getByRole("link", { name: "Merrow Shelf Observing Programme" }).first().click();
   await page.getByRole("link", { name: "Merrow North", exact: true }).click();
-  await page.getByRole("button", { name: /^QC thresholds of deployment / }).first().click();
+  await openThresholds(page);
 
   const suspectAbove = page.getByLabel("Wind speed: suspect above");
   // The defaults (DOMAIN.md §11 starter ranges): wind speed suspect above 35 m s-1.
@@ -63,7 +66,7 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
 
   // Stored: after a reload the editor opens with the new value.
   await page.reload();
-  await page.getByRole("button", { name: /^QC thresholds of deployment / }).first().click();
+  await openThresholds(page);
   await expect(page.getByLabel("Wind speed: suspect above")).toHaveValue("28");
 
   // The attenuated-signal test is off until it has a window and floors; set, it is stored like the others.
@@ -75,7 +78,7 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
   await page.getByRole("button", { name: "Save thresholds" }).click();
   await expect(page.getByText(/QC thresholds of “.*” saved/).last()).toBeVisible();
   await page.reload();
-  await page.getByRole("button", { name: /^QC thresholds of deployment / }).first().click();
+  await openThresholds(page);
   await expect(page.getByLabel("Wind speed: attenuated signal window in hours")).toHaveValue("6");
   await expect(page.getByLabel("Wind speed: attenuated signal fail below range")).toHaveValue("0.2");
 
@@ -100,7 +103,7 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
   await page.getByRole("button", { name: "Save thresholds" }).click();
   await expect(page.getByText(/QC thresholds of “.*” saved/).last()).toBeVisible();
   await page.reload();
-  await page.getByRole("button", { name: /^QC thresholds of deployment / }).first().click();
+  await openThresholds(page);
   await expect(page.getByLabel("Drag law")).toHaveValue("LY04");
   await expect(page.getByLabel("Air density", { exact: true })).toHaveValue("ideal_gas");
   await expect(page.getByLabel("Seawater density (kg m-3)")).toHaveValue("1026");
