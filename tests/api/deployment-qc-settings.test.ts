@@ -149,3 +149,48 @@ describe("the attenuated-signal test set on a deployment", () => {
     expect(report.body.testCounts.wind_speed.attenuated_signal).toEqual([0, 121]);
   });
 });
+
+describe("monthly climatology set on a deployment", () => {
+  test("judges each record by its own UTC month's bounds, and the QC report names the test", async () => {
+    // DOMAIN §11 #5 (climatology: outside seasonal limits → suspect, 3). Invented bounds: October 280–290 K,
+    // November 260–284 K, the other months wide. A steady 11.85 °C (285.00 K) air temperature over the night of
+    // 31 October passes until 23:50 and is suspect from 00:00 on 1 November, when November's bounds apply.
+    const m = await makeMooringDataset(ctx.projectId);
+    const t0 = Date.UTC(2026, 9, 31, 22) / 1000;
+    const novemberFrom = Date.UTC(2026, 10, 1) / 1000;
+    const lines = ["time,airt"];
+    for (let t = t0; t < t0 + 4 * 3600; t += 600) lines.push(`${new Date(t * 1000).toISOString().replace(".000", "")},11.85`);
+    const map = { ...demoMooringColumnMap(), columns: [{ column: "airt", variable: "air_temperature", unit: "degC" }] };
+    const min = Array.from({ length: 12 }, () => 200);
+    const max = Array.from({ length: 12 }, () => 330);
+    [min[9], max[9], min[10], max[10]] = [280, 290, 260, 284];
+    const overrides = { variables: { air_temperature: { climatology: { min, max }, spike: null, rateOfChange: null, flatLine: null } } };
+    const res = await as(ctx.users.contributor.cookie).patch(`/api/deployments/${m.deploymentId}/qc-settings`).send({ overrides });
+    expect(res.status).toBe(200);
+    expect(res.body.settings.variables.air_temperature.climatology).toEqual({ min, max });
+
+    const v = await buildVersionFromText(m.datasetId, ctx.users.contributor, `${lines.join("\n")}\n`, { map });
+    const { rows } = await pool.query(
+      `select extract(epoch from time)::float8 as t, air_temperature, ${columnSql("air_temperature_qc")} from records where dataset_id = $1 and valid_to is null order by time`,
+      [m.datasetId],
+    );
+    expect(rows).toHaveLength(24);
+    expect(rows[0].air_temperature).toBeCloseTo(285, 9);
+    expect(rows.filter((r) => r.air_temperature_qc !== (r.t < novemberFrom ? 1 : 3))).toEqual([]);
+    const report = await as(ctx.users.curator.cookie).get(`/api/versions/${v.id}/qc-report`);
+    expect(report.status).toBe(200);
+    expect(report.body.testCounts.air_temperature.climatology).toEqual([12, 0]);
+  });
+
+  test("a month without both bounds is named by its place, and nothing is stored", async () => {
+    const m = await makeMooringDataset(ctx.projectId);
+    const before = (await as(ctx.users.contributor.cookie).get(`/api/deployments/${m.deploymentId}/qc-settings`)).body;
+    const min = Array.from({ length: 11 }, () => 270);
+    const res = await as(ctx.users.contributor.cookie)
+      .patch(`/api/deployments/${m.deploymentId}/qc-settings`)
+      .send({ overrides: { variables: { air_temperature: { climatology: { min, max: Array.from({ length: 12 }, () => 300) } } } } });
+    expect(res.status).toBe(400);
+    expect(Object.keys(res.body.error.details)).toEqual(["overrides.variables.air_temperature.climatology.min"]);
+    expect((await as(ctx.users.contributor.cookie).get(`/api/deployments/${m.deploymentId}/qc-settings`)).body).toEqual(before);
+  });
+});

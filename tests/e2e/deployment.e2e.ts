@@ -61,7 +61,7 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
   await suspectAbove.fill("28");
   await page.getByRole("button", { name: "Save thresholds" }).click();
   await expect(page.getByText(/QC thresholds of “.*” saved/)).toBeVisible();
-  await expect(page.getByRole("row", { name: /Wind speed/ })).toContainText("changed from the defaults");
+  await expect(page.getByRole("row", { name: /Wind speed/ }).first()).toContainText("changed from the defaults");
   await shot(page, "deployment-qc-thresholds");
 
   // Stored: after a reload the editor opens with the new value.
@@ -81,6 +81,34 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
   await openThresholds(page);
   await expect(page.getByLabel("Wind speed: attenuated signal window in hours")).toHaveValue("6");
   await expect(page.getByLabel("Wind speed: attenuated signal fail below range")).toHaveValue("0.2");
+
+  // Monthly climatology bounds (off by default): pasted from a spreadsheet as a row of minima above a row of
+  // maxima, they fill all twelve months (invented bounds, K).
+  await page.getByRole("button", { name: "Air temperature: monthly climatology" }).click();
+  const minima = [271, 271, 272, 274, 277, 280, 283, 284, 282, 279, 275, 272];
+  const maxima = minima.map((x) => x + 18);
+  await page.getByLabel("Air temperature: climatology minimum in January").evaluate((el, text) => {
+    const data = new DataTransfer();
+    data.setData("text/plain", text);
+    el.dispatchEvent(new ClipboardEvent("paste", { clipboardData: data, bubbles: true, cancelable: true }));
+  }, `${minima.join("\t")}\n${maxima.join("\t")}\n`);
+  await expect(page.getByLabel("Air temperature: climatology minimum in August")).toHaveValue("284");
+  await expect(page.getByLabel("Air temperature: climatology maximum in December")).toHaveValue("290");
+  await expect(page.getByRole("row", { name: /Air temperature/ }).first()).toContainText("all 12 months");
+  // A month left blank is named before anything is sent.
+  await page.getByLabel("Air temperature: climatology maximum in March").fill("");
+  await page.getByRole("button", { name: "Save thresholds" }).click();
+  await expect(page.getByText(/Air temperature, monthly climatology: give both bounds for every month.*March maximum/)).toBeVisible();
+  await shot(page, "deployment-qc-climatology");
+  await page.getByLabel("Air temperature: climatology maximum in March").fill("290");
+  await page.getByRole("button", { name: "Save thresholds" }).click();
+  await expect(page.getByText(/QC thresholds of “.*” saved/).last()).toBeVisible();
+  await page.reload();
+  await openThresholds(page);
+  await expect(page.getByRole("row", { name: /Air temperature/ }).first()).toContainText("all 12 months");
+  await page.getByRole("button", { name: "Air temperature: monthly climatology" }).click();
+  await expect(page.getByLabel("Air temperature: climatology minimum in June")).toHaveValue("280");
+  await expect(page.getByLabel("Air temperature: climatology maximum in March")).toHaveValue("290");
 
   // A value that is not a number is named with its variable, and nothing is saved.
   await page.getByLabel("Wind speed: spike fail at").fill("lots");
@@ -118,5 +146,6 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
   await expect(page.getByLabel("Drag law")).toHaveValue("LP81");
   await expect(page.getByLabel("Calm below (m s-1)")).toHaveValue("1");
   await expect(page.getByLabel("Wind at 10 m")).toHaveValue("drag");
+  await expect(page.getByRole("row", { name: /Air temperature/ }).first()).toContainText("off");
   await expect(page.getByText("Tauline’s defaults: nothing changed for this deployment yet.")).toBeVisible();
 });

@@ -1,4 +1,4 @@
-import { useState, type FormEvent } from "react";
+import { Fragment, useState, type ClipboardEvent, type FormEvent } from "react";
 import type { DeploymentQcSettings, VariableQc } from "@shared/schemas/qc-settings";
 import { vocabulary, type MeasuredVariable } from "@shared/vocabulary";
 import { dragLaws, dragLawSources } from "@shared/compute/physics";
@@ -13,17 +13,24 @@ import { UtcTime } from "@/components/ui/utc-time";
 import { useDeploymentQcSettings, useUpdateDeploymentQcSettings } from "../api/qc-settings";
 
 /**
- * The QC thresholds of one deployment, per variable, in canonical units: gross range (sensor → fail, user →
- * suspect), spike, rate of change, flat line and attenuated signal (off unless set). An empty pair switches that test off; only what differs from
- * Tauline's defaults is stored, so later changes to an untouched default still apply. Builds already made keep the
- * settings they used; the next build of a dataset on this deployment uses these.
+ * The QC thresholds of one deployment, per variable, in canonical units, in two tables: range tests (gross range:
+ * sensor → fail, user → suspect; monthly climatology → suspect, off unless set) and time-series tests (spike, rate
+ * of change, flat line, attenuated signal, off unless set). An empty pair switches that test off; only what differs
+ * from Tauline's defaults is stored, so later changes to an untouched default still apply. Builds already made keep
+ * the settings they used; the next build of a dataset on this deployment uses these.
  */
 
 /** The inputs of one variable's row, as typed. */
 const FIELDS = ["sensorMin", "sensorMax", "userMin", "userMax", "spikeSuspect", "spikeFail", "rocN", "rocWindowH", "flatEpsilon", "flatSuspectH", "flatFailH", "attWindowH", "attSuspect", "attFail"] as const;
-type Field = (typeof FIELDS)[number];
+/** Monthly climatology bounds (UTC calendar months), one input each: climMin0 … climMax11. */
+const MONTHS = ["January", "February", "March", "April", "May", "June", "July", "August", "September", "October", "November", "December"] as const;
+type ClimField = `climMin${number}` | `climMax${number}`;
+const climMin = (m: number): ClimField => `climMin${m}`;
+const climMax = (m: number): ClimField => `climMax${m}`;
+const CLIM_FIELDS: ClimField[] = MONTHS.flatMap((_, m) => [climMin(m), climMax(m)]);
+type Field = (typeof FIELDS)[number] | ClimField;
 type Row = Record<Field, string>;
-type Tests = Pick<VariableQc, "sensor" | "user" | "spike" | "rateOfChange" | "flatLine" | "attenuatedSignal">;
+type Tests = Pick<VariableQc, "sensor" | "user" | "climatology" | "spike" | "rateOfChange" | "flatLine" | "attenuatedSignal">;
 
 /** Twelve significant digits: −60 °C in kelvin reads 213.15, not 213.14999999999998. */
 const text = (x: number | null | undefined) => (x === null || x === undefined ? "" : String(Number(x.toPrecision(12))));
@@ -33,6 +40,7 @@ const hours = (s: number | null | undefined) => (s === null || s === undefined ?
 const TEST_FIELDS: Record<keyof Tests, Field[]> = {
   sensor: ["sensorMin", "sensorMax"],
   user: ["userMin", "userMax"],
+  climatology: CLIM_FIELDS,
   spike: ["spikeSuspect", "spikeFail"],
   rateOfChange: ["rocN", "rocWindowH"],
   flatLine: ["flatEpsilon", "flatSuspectH", "flatFailH"],
@@ -55,7 +63,8 @@ function rowOf(q: VariableQc): Row {
     attWindowH: hours(q.attenuatedSignal?.windowS),
     attSuspect: text(q.attenuatedSignal?.suspectBelow),
     attFail: text(q.attenuatedSignal?.failBelow),
-  };
+    ...Object.fromEntries(MONTHS.flatMap((_, m) => [[climMin(m), text(q.climatology?.min[m])], [climMax(m), text(q.climatology?.max[m])]])),
+  } as Row;
 }
 
 /** A typed number, null when blank; text that is not a number is sent as is so the server names it. */
@@ -71,6 +80,9 @@ function testsOf(r: Row, current: VariableQc): Tests {
   return {
     sensor: blank(r.sensorMin, r.sensorMax) ? null : ({ min: num(r.sensorMin), max: num(r.sensorMax) } as Tests["sensor"]),
     user: blank(r.userMin, r.userMax) ? null : ({ min: num(r.userMin), max: num(r.userMax) } as Tests["user"]),
+    climatology: blank(...CLIM_FIELDS.map((f) => r[f]))
+      ? null
+      : ({ min: MONTHS.map((_, m) => num(r[climMin(m)])), max: MONTHS.map((_, m) => num(r[climMax(m)])) } as Tests["climatology"]),
     spike: blank(r.spikeSuspect, r.spikeFail) ? null : ({ suspect: num(r.spikeSuspect), fail: num(r.spikeFail) } as Tests["spike"]),
     rateOfChange: blank(r.rocN, r.rocWindowH)
       ? null
@@ -93,6 +105,21 @@ function testsOf(r: Row, current: VariableQc): Tests {
           minCount: current.attenuatedSignal?.minCount ?? 3,
         } as Tests["attenuatedSignal"]),
   };
+}
+
+/** How many months of a row's climatology have both bounds, in words. */
+function monthsSet(r: Row): string {
+  const n = MONTHS.filter((_, m) => r[climMin(m)].trim() !== "" && r[climMax(m)].trim() !== "").length;
+  return n === 0 && blank(...CLIM_FIELDS.map((f) => r[f])) ? "off" : n === 12 ? "all 12 months" : `${n} of 12 months`;
+}
+
+/** Why a row's climatology cannot be saved as typed (some bounds given, others blank), or null. */
+function halfFilledMonth(r: Row): string | null {
+  if (blank(...CLIM_FIELDS.map((f) => r[f]))) return null;
+  const missing = MONTHS.flatMap((m, i) => [r[climMin(i)].trim() ? [] : [`${m} minimum`], r[climMax(i)].trim() ? [] : [`${m} maximum`]].flat());
+  if (!missing.length) return null;
+  const named = missing.length > 3 ? `${missing.slice(0, 3).join(", ")} and ${missing.length - 3} more` : missing.join(", ");
+  return `give both bounds for every month, or leave all twelve blank (blank: ${named})`;
 }
 
 /** The stored overrides with each shown test set where it differs from the default and removed where it does not. */
@@ -225,7 +252,8 @@ function readableProblems(e: unknown): string[] {
   return Object.entries(e.fields).map(([path, msgs]) => {
     const parts = path.replace(/^overrides\./, "").split(".");
     const v = parts[0] === "variables" ? vocabulary[parts[1] as MeasuredVariable] : undefined;
-    const where = v ? `${v.label}, ${parts.slice(2).join(" ")}` : (SITE_LABELS[parts.join(".")] ?? parts.join(" "));
+    const rest = parts[2] === "climatology" && parts.length === 5 ? [`climatology ${parts[3] === "min" ? "minimum" : "maximum"} in ${MONTHS[Number(parts[4])] ?? parts[4]}`] : parts.slice(2);
+    const where = v ? `${v.label}, ${rest.join(" ")}` : (SITE_LABELS[parts.join(".")] ?? parts.join(" "));
     return `${where}: ${msgs.join("; ")}`;
   });
 }
@@ -242,6 +270,7 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
   const [rows, setRows] = useState<Record<string, Row>>(() => Object.fromEntries(variables.map((v) => [v, rowOf(data.settings.variables[v])])));
   const [site, setSite] = useState<Site>(() => siteOf(data.settings));
   const [problems, setProblems] = useState<string[]>([]);
+  const [monthsOpen, setMonthsOpen] = useState<MeasuredVariable[]>([]);
   const save = useUpdateDeploymentQcSettings(data.deploymentId);
   const changed = variables.filter((v) => JSON.stringify(rowOf(data.defaults.variables[v])) !== JSON.stringify(rows[v]));
 
@@ -254,10 +283,42 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
   };
   const onSubmit = (e: FormEvent) => {
     e.preventDefault();
+    const partial = variables.flatMap((v) => {
+      const gap = halfFilledMonth(rows[v]!);
+      return gap ? [`${vocabulary[v].label}, monthly climatology: ${gap}`] : [];
+    });
+    if (partial.length) {
+      setMonthsOpen((o) => [...new Set([...o, ...variables.filter((v) => halfFilledMonth(rows[v]!))])]);
+      return setProblems(partial);
+    }
     submit(withSite(overridesFrom(data, rows), data, site), `QC thresholds of “${deploymentName}” saved. The next build uses them.`);
   };
-  const cell = (v: string, f: Field, label: string) => (
+  /**
+   * Pasting several numbers into a month (copied from a spreadsheet: a row, or a row of minima above a row of
+   * maxima) fills that month and the ones after it; a single number pastes as usual.
+   */
+  const pasteMonths = (v: string, side: "min" | "max", from: number) => (e: ClipboardEvent<HTMLInputElement>) => {
+    const lines = e.clipboardData
+      .getData("text/plain")
+      .trim()
+      .split(/\r?\n/)
+      .map((l) => l.trim().split(/[\t;, ]+/).filter(Boolean));
+    if (lines.length === 1 && lines[0]!.length < 2) return;
+    e.preventDefault();
+    const sides: ("min" | "max")[] = lines.length > 1 && side === "min" ? ["min", "max"] : [side];
+    setRows((r) => {
+      const row = { ...r[v]! };
+      sides.forEach((sd, k) =>
+        lines[k]!.slice(0, 12 - from).forEach((x, j) => {
+          row[sd === "min" ? climMin(from + j) : climMax(from + j)] = x;
+        }),
+      );
+      return { ...r, [v]: row };
+    });
+  };
+  const cell = (v: string, f: Field, label: string, onPaste?: (e: ClipboardEvent<HTMLInputElement>) => void) => (
     <input
+      onPaste={onPaste}
       aria-label={`${vocabulary[v as MeasuredVariable].label}: ${label}`}
       className="num w-[4.25rem] rounded border border-field bg-surface px-1 py-1 text-right text-xs disabled:border-transparent disabled:bg-transparent"
       inputMode="decimal"
@@ -288,6 +349,15 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
         onChange={(e) => setSite({ ...site, numbers: { ...site.numbers, [f.path]: e.target.value } })}
       />
     ));
+  const variableCell = (v: MeasuredVariable) => (
+    <>
+      <div className="whitespace-nowrap font-semibold">{vocabulary[v].label}</div>
+      <div className="text-sm text-muted">
+        {vocabulary[v].canonicalUnit}
+        {changed.includes(v) ? " · changed from the defaults" : ""}
+      </div>
+    </>
+  );
   /** One setting, then a suspect – fail pair (flat line, attenuated signal). */
   const cellAndPair = (v: string, one: [Field, string], a: [Field, string], b: [Field, string]) => (
     <span className="inline-flex items-center gap-1.5">
@@ -342,47 +412,114 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
         ) : null}
         {numbers("diagnostics")}
       </fieldset>
-      <div className="overflow-x-auto">
-        <Table caption={`QC thresholds of ${deploymentName}`}>
-          <thead>
-            <tr>
-              <Th>Variable</Th>
-              <Th unit="min – max">Fail outside</Th>
-              <Th unit="min – max">Suspect outside</Th>
-              <Th unit="suspect – fail">Spike</Th>
-              <Th unit="n·σ – window h">Rate of change</Th>
-              <Th unit="within ε; suspect – fail h">Flat line</Th>
-              <Th unit="window h; range below: suspect – fail">Attenuated signal</Th>
-            </tr>
-          </thead>
-          <tbody>
-            {variables.map((v) => (
-              <Tr key={v}>
-                <Td>
-                  <div className="whitespace-nowrap font-semibold">{vocabulary[v].label}</div>
-                  <div className="text-sm text-muted">
-                    {vocabulary[v].canonicalUnit}
-                    {changed.includes(v) ? " · changed from the defaults" : ""}
-                  </div>
-                </Td>
+      <h3 className="mt-1 text-sm font-semibold">Range tests</h3>
+      <Table caption={`Range tests of ${deploymentName}`}>
+        <thead>
+          <tr>
+            <Th>Variable</Th>
+            <Th unit="min – max">Fail outside</Th>
+            <Th unit="min – max">Suspect outside</Th>
+            <Th unit="suspect outside, per UTC month">Monthly climatology</Th>
+          </tr>
+        </thead>
+        <tbody>
+          {variables.map((v) => (
+            <Fragment key={v}>
+              <Tr>
+                <Td>{variableCell(v)}</Td>
                 <Td>{pair(v, "sensorMin", "sensorMax", "fail below", "fail above")}</Td>
                 <Td>{pair(v, "userMin", "userMax", "suspect below", "suspect above")}</Td>
-                <Td>{pair(v, "spikeSuspect", "spikeFail", "spike suspect at", "spike fail at")}</Td>
-                <Td>{pair(v, "rocN", "rocWindowH", "rate of change N", "rate of change window in hours")}</Td>
-                <Td>{cellAndPair(v, ["flatEpsilon", "flat line epsilon"], ["flatSuspectH", "flat line suspect after hours"], ["flatFailH", "flat line fail after hours"])}</Td>
                 <Td>
-                  {cellAndPair(
-                    v,
-                    ["attWindowH", "attenuated signal window in hours"],
-                    ["attSuspect", "attenuated signal suspect below range"],
-                    ["attFail", "attenuated signal fail below range"],
-                  )}
+                  <span className="inline-flex items-center gap-2">
+                    <span className="text-sm text-muted">{monthsSet(rows[v]!)}</span>
+                    <Button
+                      variant="secondary"
+                      size="sm"
+                      aria-expanded={monthsOpen.includes(v)}
+                      aria-label={`${vocabulary[v].label}: monthly climatology`}
+                      onClick={() => setMonthsOpen((o) => (o.includes(v) ? o.filter((x) => x !== v) : [...o, v]))}
+                    >
+                      {monthsOpen.includes(v) ? "Hide months" : "Months"}
+                    </Button>
+                  </span>
                 </Td>
               </Tr>
-            ))}
-          </tbody>
-        </Table>
-      </div>
+              {monthsOpen.includes(v) ? (
+                <tr>
+                  <td colSpan={4} className="border-b border-line/70 bg-sunken/40 px-3 py-3">
+                    <div className="overflow-x-auto">
+                      <table className="text-xs">
+                        <caption className="sr-only">Monthly climatology of {vocabulary[v].label}</caption>
+                        <thead>
+                          <tr>
+                            <th scope="col" className="pr-2 text-left font-semibold text-muted">
+                              {vocabulary[v].canonicalUnit}
+                            </th>
+                            {MONTHS.map((m) => (
+                              <th key={m} scope="col" className="px-0.5 pb-1 text-center font-semibold text-muted">
+                                {m.slice(0, 3)}
+                              </th>
+                            ))}
+                          </tr>
+                        </thead>
+                        <tbody>
+                          {(["min", "max"] as const).map((side) => (
+                            <tr key={side}>
+                              <th scope="row" className="whitespace-nowrap pr-2 text-left font-normal text-muted">
+                                {side === "min" ? "suspect below" : "suspect above"}
+                              </th>
+                              {MONTHS.map((m, i) => (
+                                <td key={m} className="px-0.5 py-0.5">
+                                  {cell(v, side === "min" ? climMin(i) : climMax(i), `climatology ${side === "min" ? "minimum" : "maximum"} in ${m}`, pasteMonths(v, side, i))}
+                                </td>
+                              ))}
+                            </tr>
+                          ))}
+                        </tbody>
+                      </table>
+                    </div>
+                    <p className="mt-2 text-xs text-muted">
+                      A value outside its month’s bounds is suspect (3). Give both bounds for all twelve months, or leave them all blank to switch the test off.
+                      Pasting a row of numbers from a spreadsheet fills the months from the one you paste into; a row of minima above a row of maxima
+                      fills both.
+                    </p>
+                  </td>
+                </tr>
+              ) : null}
+            </Fragment>
+          ))}
+        </tbody>
+      </Table>
+      <h3 className="mt-1 text-sm font-semibold">Time-series tests</h3>
+      <Table caption={`Time-series tests of ${deploymentName}`}>
+        <thead>
+          <tr>
+            <Th>Variable</Th>
+            <Th unit="suspect – fail">Spike</Th>
+            <Th unit="n·σ – window h">Rate of change</Th>
+            <Th unit="within ε; suspect – fail h">Flat line</Th>
+            <Th unit="window h; range below: suspect – fail">Attenuated signal</Th>
+          </tr>
+        </thead>
+        <tbody>
+          {variables.map((v) => (
+            <Tr key={v}>
+              <Td>{variableCell(v)}</Td>
+              <Td>{pair(v, "spikeSuspect", "spikeFail", "spike suspect at", "spike fail at")}</Td>
+              <Td>{pair(v, "rocN", "rocWindowH", "rate of change N", "rate of change window in hours")}</Td>
+              <Td>{cellAndPair(v, ["flatEpsilon", "flat line epsilon"], ["flatSuspectH", "flat line suspect after hours"], ["flatFailH", "flat line fail after hours"])}</Td>
+              <Td>
+                {cellAndPair(
+                  v,
+                  ["attWindowH", "attenuated signal window in hours"],
+                  ["attSuspect", "attenuated signal suspect below range"],
+                  ["attFail", "attenuated signal fail below range"],
+                )}
+              </Td>
+            </Tr>
+          ))}
+        </tbody>
+      </Table>
       {problems.length ? (
         <Alert tone="attention">
           <p className="font-semibold">Nothing was saved. Check:</p>
