@@ -17,7 +17,8 @@ export const paths = {
   project: (id: string) => `/projects/${id}`,
   platform: (id: string) => `/platforms/${id}`,
   dataset: (id: string) => `/datasets/${id}`,
-  versionExplore: (id: string, q?: { view?: string; from?: string; to?: string }) => {
+  /** `variable` (and a fleet's `platform`) bring that variable's plot into view. */
+  versionExplore: (id: string, q?: { view?: string; from?: string; to?: string; variable?: string; platform?: string }) => {
     const s = new URLSearchParams(Object.entries(q ?? {}).filter((e): e is [string, string] => !!e[1]));
     return s.size ? `/versions/${id}/explore?${s}` : `/versions/${id}/explore`;
   },

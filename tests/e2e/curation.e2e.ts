@@ -35,6 +35,17 @@ test("a curator rejects one version with a reason and approves another; the uplo
   await expect(page.getByRole("heading", { name: /Version 2/ })).toBeVisible();
   await expect(page.getByTestId("rows-added")).toHaveText("432");
   await expect(page.getByRole("table", { name: "QC flag counts per variable" })).toContainText("Wind speed");
+  // A flagged stretch opens the plots around it, with its variable's plot brought into view.
+  const stretchPlot = page.getByRole("table", { name: "Longest stretches of hours with suspect or failed values" }).getByRole("link", { name: /^Plot / }).first();
+  await stretchPlot.click();
+  await expect(page).toHaveURL(/\/explore\?from=[^&]+&to=[^&]+&variable=/);
+  await expect(page.getByRole("heading", { name: /Explore version 2/ })).toBeVisible();
+  const focused = new URL(page.url()).searchParams.get("variable")!;
+  await expect(page.locator(`[data-variables~="${focused}"]`)).toBeInViewport();
+  await shot(page, "curation-stretch-plots");
+  await page.goBack();
+  await expect(page.getByRole("heading", { name: /Version 2/ })).toBeVisible();
+  await expect(page.getByRole("link", { name: "Plots, records and map" })).toHaveAttribute("href", `/versions/${ids.northV2}/explore`);
   await page.getByRole("radio", { name: /Reject/ }).check();
   await page.getByRole("button", { name: "Reject" }).click();
   await expect(page.getByText("Give a reason of at least 3 characters")).toBeVisible();

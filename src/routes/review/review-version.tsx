@@ -4,6 +4,7 @@ import { paths } from "@/config/paths";
 import { queryClient } from "@/lib/query-client";
 import { formatUtc } from "@/lib/format";
 import { Alert } from "@/components/ui/alert";
+import { ButtonLink } from "@/components/ui/button";
 import { Loading } from "@/components/ui/loading";
 import { PageHeader } from "@/components/ui/page-header";
 import { Panel, Section } from "@/components/ui/section";
@@ -48,6 +49,11 @@ export function Component() {
           r.permissions.canDecide
             ? `${v.datasetTitle}. Check the QC summary and what changed since the previous version, then decide.`
             : `${v.datasetTitle}: QC summary, changes since the previous version, and the review so far.`
+        }
+        actions={
+          <ButtonLink to={paths.versionExplore(v.id)} variant="secondary">
+            Plots, records and map
+          </ButtonLink>
         }
       />
 

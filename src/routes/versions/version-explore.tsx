@@ -171,6 +171,7 @@ export function Component() {
                 onShowNumbers={(a, b) => set({ view: "records", from: a, to: b })}
                 canMark={member}
                 platforms={v.summary.platforms.map((p) => p.id)}
+                focus={{ variable: params.get("variable"), platform: params.get("platform") }}
               />
               {member ? (
                 <Section

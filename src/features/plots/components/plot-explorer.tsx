@@ -1,4 +1,4 @@
-import { useMemo, useState } from "react";
+import { useEffect, useMemo, useRef, useState } from "react";
 import { Alert } from "@/components/ui/alert";
 import { Button } from "@/components/ui/button";
 import { EmptyState } from "@/components/ui/empty-state";
@@ -34,6 +34,7 @@ export function PlotExplorer({
   onShowNumbers,
   canMark,
   platforms,
+  focus,
 }: {
   versionId: string;
   variables: string[];
@@ -50,12 +51,23 @@ export function PlotExplorer({
   canMark: boolean;
   /** A fleet's platforms: one is plotted at a time. */
   platforms: string[];
+  /** A variable (and a fleet's platform) to bring into view once the plots are drawn, e.g. from a flagged stretch. */
+  focus?: { variable: string | null; platform: string | null };
 }) {
-  const [platform, setPlatform] = useState<string | null>(platforms.length > 1 ? platforms[0]! : null);
+  const [platform, setPlatform] = useState<string | null>(
+    platforms.length > 1 ? (focus?.platform && platforms.includes(focus.platform) ? focus.platform : platforms[0]!) : null,
+  );
   const panels = useMemo(() => panelsFor(variables, kind), [variables, kind]);
   const sticks = stickDefs.filter((s) => variables.includes(s.u) && variables.includes(s.v));
   const wanted = useMemo(() => [...new Set([...panels.flatMap((p) => p.variables.map((v) => v.key)), ...sticks.flatMap((s) => [s.u, s.v])])].slice(0, 24), [panels, sticks]);
   const q = usePlotWindow(versionId, wanted, window.from, window.to, 2000, platform);
+  const focusPanel = focus?.variable ? panels.find((p) => p.variables.some((x) => x.key === focus.variable))?.id : undefined;
+  const focused = useRef(false);
+  useEffect(() => {
+    if (!focusPanel || focused.current || !q.data) return;
+    focused.current = true;
+    document.getElementById(`plot-${focusPanel}`)?.scrollIntoView({ block: "start" });
+  }, [focusPanel, q.data]);
 
   if (!panels.length) return <EmptyState title="Nothing to plot">This version has no variables Tauline plots. Check the column map of its upload.</EmptyState>;
   if (q.isPending) return <Loading label="Loading plots…" />;
@@ -162,7 +174,9 @@ export function PlotExplorer({
         {hideFlagged ? <span>Buckets holding a suspect or failed value are hidden.</span> : null}
       </div>
       {panels.map((p) => (
-        <PlotPanel key={p.id} panel={p} series={w.series} from={from} to={to} stepS={w.stepS} hideFlagged={hideFlagged} shades={shades} onSelect={onSelect} syncKey={`explore-${versionId}`} />
+        <div key={p.id} id={`plot-${p.id}`} data-variables={p.variables.map((x) => x.key).join(" ")} className="scroll-mt-4">
+          <PlotPanel panel={p} series={w.series} from={from} to={to} stepS={w.stepS} hideFlagged={hideFlagged} shades={shades} onSelect={onSelect} syncKey={`explore-${versionId}`} />
+        </div>
       ))}
       {sticks.map((s) => (
         <StickPlot

@@ -1,6 +1,8 @@
 import { qcRunReportSchema, versionSummaryDataSchema, type VersionSummaryData } from "@shared/schemas/versions";
 import type { VersionReview } from "@shared/schemas/curation";
 import { derivedVocabulary, vocabulary } from "@shared/vocabulary";
+import { Link } from "react-router-dom";
+import { paths } from "@/config/paths";
 import { formatUtc } from "@/lib/format";
 import { FlagBadge, type QcFlag } from "@/components/ui/flag-badge";
 import { FlagCountsTable } from "@/components/ui/flag-counts-table";
@@ -38,6 +40,18 @@ export function parseSummary(summary: unknown): VersionSummaryData | null {
 
 /** Flag counts per variable for the whole version, which tests raised suspect or fail, and the worst stretches. */
 export function QcSummary({ review }: { review: VersionReview }) {
+  /** The plots of a stretch with as much again either side (at least an hour), so the flags are seen in context. */
+  const plotsOf = (s: VersionReview["stretches"][number]) => {
+    const a = Date.parse(s.from);
+    const b = Date.parse(s.to);
+    const pad = Math.max(3_600_000, b - a);
+    return paths.versionExplore(review.version.id, {
+      from: new Date(a - pad).toISOString(),
+      to: new Date(b + pad).toISOString(),
+      variable: s.variable,
+      platform: s.platform || undefined,
+    });
+  };
   const summary = parseSummary(review.version.summary);
   const report = qcRunReportSchema.safeParse(review.qc);
   if (!summary) {
@@ -65,15 +79,16 @@ export function QcSummary({ review }: { review: VersionReview }) {
       <FlagCountsTable
         caption="QC flag counts per variable"
         flags={shownFlags}
-        lead={["Variable", "Unit"]}
+        lead={["Variable · unit"]}
         rows={summary.variables.map((v) => ({
           key: v.variable,
           cells: [
             <>
               <span className="font-semibold">{variableLabel(v.variable)}</span>
-              <span className="block font-mono text-xs text-muted">{v.variable}</span>
+              <span className="block font-mono text-xs text-muted">
+                {v.variable} · {v.unit}
+              </span>
             </>,
-            <span className="whitespace-nowrap font-mono text-sm">{v.unit}</span>,
           ],
           counts: v.flags,
         }))}
@@ -127,6 +142,9 @@ export function QcSummary({ review }: { review: VersionReview }) {
                 <Th numeric unit="h">
                   Length
                 </Th>
+                <Th>
+                  <span className="sr-only">Plots</span>
+                </Th>
               </tr>
             </thead>
             <tbody>
@@ -140,6 +158,11 @@ export function QcSummary({ review }: { review: VersionReview }) {
                   <Td className="num">{formatUtc(s.from)}</Td>
                   <Td className="num">{formatUtc(s.to)}</Td>
                   <Td numeric>{s.hours}</Td>
+                  <Td>
+                    <Link to={plotsOf(s)} aria-label={`Plot ${variableLabel(s.variable)} from ${formatUtc(s.from)}`} className="whitespace-nowrap">
+                      Plot
+                    </Link>
+                  </Td>
                 </Tr>
               ))}
             </tbody>
