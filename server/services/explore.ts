@@ -234,12 +234,14 @@ async function recordBuckets(v: ReadableVersion, variables: string[], platform: 
 interface Cursor {
   t: string;
   p: string;
+  /** The sort variable's value of the last row, when sorting by a variable. */
+  s?: number;
 }
 const encodeCursor = (c: Cursor) => Buffer.from(JSON.stringify(c)).toString("base64url");
 function decodeCursor(s: string): Cursor {
   try {
     const c = JSON.parse(Buffer.from(s, "base64url").toString("utf8"));
-    if (typeof c?.t === "string" && typeof c?.p === "string" && !Number.isNaN(Date.parse(c.t))) return c;
+    if (typeof c?.t === "string" && typeof c?.p === "string" && !Number.isNaN(Date.parse(c.t)) && (c.s === undefined || Number.isFinite(c.s))) return c;
   } catch {
     /* fall through */
   }
@@ -269,33 +271,44 @@ export async function getRecordsPage(user: SessionUser | null | undefined, id: s
     where.push(`(${vars.map((x) => `${flagSql(x)} = any(${f}::smallint[])`).join(" or ")})`);
   }
   const dir = input.order === "desc" ? "desc" : "asc";
+  // Sorting by a variable: only records with a value of it (PostgreSQL sorts NaN above every number).
+  const sort = input.sort;
+  if (sort) {
+    checkVariables(v, [sort], "sort");
+    where.push(`${q(sort)} is not null and ${q(sort)} <> 'NaN'::float8`);
+  }
   if (input.cursor) {
     const c = decodeCursor(input.cursor);
-    where.push(`(time, platform) ${dir === "asc" ? ">" : "<"} (${add(c.t)}::timestamptz, ${add(c.p)})`);
+    if (sort && c.s === undefined) throw new AppError("validation_failed", "The page cursor is not valid; start again from the first page", 400, { cursor: ["Not a cursor of this order"] });
+    const key = sort ? `(${q(sort)}, time, platform)` : `(time, platform)`;
+    const at = sort ? `(${add(c.s)}::float8, ${add(c.t)}::timestamptz, ${add(c.p)})` : `(${add(c.t)}::timestamptz, ${add(c.p)})`;
+    where.push(`${key} ${dir === "asc" ? ">" : "<"} ${at}`);
   }
   const cols = vars.flatMap((x) => [q(x), flagSql(x)]).join(", ");
   const limit = input.limit;
   const { rows } = await pool.query({
-    text: `select to_char(time at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"') as t, platform${cols ? `, ${cols}` : ""}
-             from records where ${where.join(" and ")} order by time ${dir}, platform ${dir} limit ${limit + 1}`,
+    text: `select to_char(time at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"') as t, platform${sort ? `, ${q(sort)} as s` : ""}${cols ? `, ${cols}` : ""}
+             from records where ${where.join(" and ")} order by ${sort ? `${q(sort)} ${dir}, ` : ""}time ${dir}, platform ${dir} limit ${limit + 1}`,
     values,
     rowMode: "array",
   });
   const more = rows.length > limit;
   const page = (rows as unknown[][]).slice(0, limit);
+  const o = sort ? 3 : 2;
   const items = page.map((r) => {
     const vals: Record<string, number | null> = {};
     const flags: Record<string, number | null> = {};
     vars.forEach((x, k) => {
-      const val = r[2 + 2 * k] as number | null;
+      const val = r[o + 2 * k] as number | null;
       vals[x] = val === null || Number.isNaN(val) ? null : val;
-      flags[x] = r[3 + 2 * k] as number | null;
+      flags[x] = r[o + 1 + 2 * k] as number | null;
     });
     const t = r[0] as string;
     return { time: new Date(t).toISOString(), platform: r[1] as string, values: vals, flags };
   });
   const last = page[page.length - 1];
-  return { columns: columnsOf(vars), items, nextCursor: more && last ? encodeCursor({ t: last[0] as string, p: last[1] as string }) : null };
+  const cursor = (r: unknown[]): Cursor => (sort ? { t: r[0] as string, p: r[1] as string, s: r[2] as number } : { t: r[0] as string, p: r[1] as string });
+  return { columns: columnsOf(vars), items, nextCursor: more && last ? encodeCursor(cursor(last)) : null };
 }
 
 // GET /api/versions/:id/qc-report

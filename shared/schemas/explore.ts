@@ -63,6 +63,11 @@ export const recordsQuerySchema = z
     to: isoInstantSchema.optional(),
     platform: z.string().max(200).optional(),
     order: z.enum(["asc", "desc"], { message: "order must be asc or desc" }).default("asc"),
+    /**
+     * Sort by a variable's value instead of time (ties by time, then platform), in `order`; records without a value
+     * of that variable are left out while sorting by it. Omit to sort by time.
+     */
+    sort: z.string().trim().min(1).max(100).optional(),
     /** Keyset cursor from the previous page's `nextCursor`. */
     cursor: z.string().max(400).optional(),
     limit: z.coerce.number().int().min(1, "limit must be at least 1").max(2000, "limit must be at most 2000").default(500),

@@ -3,7 +3,8 @@ import { plotWindowSchema, qcReportSchema, recordsPageSchema, trackSchema, type 
 import { pool } from "../../server/db/client";
 import { stopSender } from "../../server/jobs/queue";
 import { as, makeProjectWithRoles, testApp } from "../helpers/api";
-import { buildMooringVersion, releaseVersion } from "../helpers/explore";
+import { buildMooringVersion, buildVersionFromText, releaseVersion } from "../helpers/explore";
+import { demoMooringColumnMap } from "@shared/demo/generate";
 import { makeMooringDataset, versionRows } from "../helpers/pipeline";
 import { flagSql } from "../../server/db/record-flags";
 
@@ -151,6 +152,69 @@ describe("GET /api/versions/:id/records", () => {
     const bad = await c.get(`/api/versions/${version.id}/records?cursor=nonsense`);
     expect(bad.status).toBe(400);
     expect(bad.body.error.details.cursor).toBeDefined();
+  });
+});
+
+describe("GET /api/versions/:id/records sorted by a variable", () => {
+  test("keyset pages walk the records by value, largest first, ties by time", async () => {
+    const c = as(roles.users.contributor.cookie);
+    // The expectation, independently: every record of the version read in time order, then sorted here.
+    const all: { time: string; v: number | null }[] = [];
+    let cursor: string | null = null;
+    do {
+      const page = recordsPageSchema.parse((await c.get(`/api/versions/${version.id}/records?variables=wind_speed&limit=2000${cursor ? `&cursor=${cursor}` : ""}`)).body);
+      all.push(...page.items.map((r) => ({ time: r.time, v: r.values.wind_speed ?? null })));
+      cursor = page.nextCursor;
+    } while (cursor);
+    const expected = all
+      .filter((r) => r.v !== null)
+      .sort((a, b) => b.v! - a.v! || (a.time < b.time ? 1 : a.time > b.time ? -1 : 0))
+      .map((r) => `${r.time} ${r.v}`);
+    // Several records share a value (to the data's 0.01 m/s), so the tie order is tested too.
+    expect(new Set(expected.map((x) => x.split(" ")[1])).size).toBeLessThan(expected.length);
+
+    const seen: string[] = [];
+    do {
+      const res = await c.get(`/api/versions/${version.id}/records?variables=wind_speed,air_temperature&sort=wind_speed&order=desc&limit=700${cursor ? `&cursor=${cursor}` : ""}`);
+      expect(res.status, JSON.stringify(res.body)).toBe(200);
+      const page = recordsPageSchema.parse(res.body);
+      seen.push(...page.items.map((r) => `${r.time} ${r.values.wind_speed}`));
+      cursor = page.nextCursor;
+    } while (cursor);
+    expect(seen).toEqual(expected);
+
+    const asc = recordsPageSchema.parse((await c.get(`/api/versions/${version.id}/records?variables=wind_speed&sort=wind_speed&order=asc&limit=1`)).body);
+    expect(`${asc.items[0]!.time} ${asc.items[0]!.values.wind_speed}`).toBe(expected[expected.length - 1]);
+  });
+
+  test("records without a value of the sort variable are left out, not sorted as the largest", async () => {
+    // PostgreSQL orders NaN above every number; a blank reading must not head a "largest first" list.
+    const m = await makeMooringDataset(roles.projectId);
+    const lines = ["time,wspd,airt"];
+    for (let k = 0; k < 12; k++) lines.push(`2026-10-03T00:${String(k * 5).padStart(2, "0")}:00Z,${k % 4 === 1 ? "" : (5 + k / 10).toFixed(1)},12.5`);
+    const map = {
+      ...demoMooringColumnMap(),
+      columns: [
+        { column: "wspd", variable: "wind_speed", unit: "m s-1" },
+        { column: "airt", variable: "air_temperature", unit: "degC" },
+      ],
+    };
+    const v = await buildVersionFromText(m.datasetId, roles.users.contributor, `${lines.join("\n")}\n`, { map });
+    const page = recordsPageSchema.parse((await as(roles.users.contributor.cookie).get(`/api/versions/${v.id}/records?variables=wind_speed&sort=wind_speed&order=desc`)).body);
+    expect(page.items.map((r) => r.values.wind_speed)).toEqual([6.1, 6, 5.8, 5.7, 5.6, 5.4, 5.3, 5.2, 5]);
+    const byTime = recordsPageSchema.parse((await as(roles.users.contributor.cookie).get(`/api/versions/${v.id}/records?variables=wind_speed`)).body);
+    expect(byTime.items.filter((r) => r.values.wind_speed === null)).toHaveLength(3);
+  });
+
+  test("an unknown sort variable, or a cursor of the time order, is named and refused", async () => {
+    const c = as(roles.users.contributor.cookie);
+    const unknown = await c.get(`/api/versions/${version.id}/records?sort=salinity`);
+    expect(unknown.status).toBe(400);
+    expect(unknown.body.error.details.sort[0]).toMatch(/salinity/);
+    const timeOrder = recordsPageSchema.parse((await c.get(`/api/versions/${version.id}/records?variables=wind_speed&limit=2`)).body);
+    const mixed = await c.get(`/api/versions/${version.id}/records?variables=wind_speed&sort=wind_speed&cursor=${timeOrder.nextCursor}`);
+    expect(mixed.status).toBe(400);
+    expect(mixed.body.error.details.cursor).toBeDefined();
   });
 });
 

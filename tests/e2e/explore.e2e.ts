@@ -99,6 +99,20 @@ test("mark a stretch, flag it suspect with a reason, see it in plot and table", 
   for (let i = 0; i < n; i++) await expect(rows.nth(i).getByRole("cell").nth(1)).toContainText("suspect");
   await shot(page, "explore-records-flagged");
 
+  // A value header sorts by that variable on the server: largest first, then smallest first.
+  const speedHeader = page.getByRole("columnheader", { name: /^Wind speed/ });
+  await speedHeader.getByRole("button").click();
+  await expect(speedHeader).toHaveAttribute("aria-sort", "descending");
+  await expect(page.getByText("Sorted by Wind speed, largest first")).toBeVisible();
+  const speeds = async () =>
+    (await rows.evaluateAll((els) => els.slice(0, 8).map((el) => el.querySelectorAll('[role="cell"]')[1]!.textContent!))).map((t) => Number(t.replace("−", "-").match(/-?[\d.]+/)![0]));
+  await expect.poll(async () => { const v = await speeds(); return v.every((x, i) => i === 0 || x <= v[i - 1]!) && v.length > 1; }).toBe(true);
+  const largest = (await speeds())[0]!;
+  await speedHeader.getByRole("button").click();
+  await expect(speedHeader).toHaveAttribute("aria-sort", "ascending");
+  await expect.poll(async () => (await speeds())[0]!).toBeLessThan(largest);
+  await shot(page, "explore-records-sorted");
+
   await page.getByTestId("tab-map").click();
   await expect(page.getByTestId("map-land").first()).toBeVisible();
   await shot(page, "explore-map");

@@ -8,6 +8,8 @@ export interface RecordsFilter {
   to?: string;
   order: "asc" | "desc";
   flags: number[];
+  /** A variable to sort by (in `order`) instead of time. */
+  sort?: string;
 }
 
 // GET /api/versions/:id/records (keyset pages, fetched as the table scrolls)
@@ -21,6 +23,7 @@ export function useRecordPages(versionId: string, f: RecordsFilter) {
       if (f.from) q.set("from", f.from);
       if (f.to) q.set("to", f.to);
       if (f.flags.length) q.set("flags", f.flags.join(","));
+      if (f.sort) q.set("sort", f.sort);
       if (pageParam) q.set("cursor", pageParam);
       return api.get<RecordsPage>(`/api/versions/${versionId}/records?${q}`, signal);
     },

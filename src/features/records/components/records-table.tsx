@@ -1,4 +1,5 @@
 import { useEffect, useMemo, useRef, useState } from "react";
+import clsx from "clsx";
 import { createColumnHelper, tableFeatures, useTable } from "@tanstack/react-table";
 import { useVirtualizer } from "@tanstack/react-virtual";
 import type { RecordRow } from "@shared/schemas/explore";
@@ -32,8 +33,10 @@ function fmt(x: number | null | undefined) {
 }
 
 /**
- * The records of a version, page by page from the server (keyset on time), rendered as a virtual list so a whole
- * month scrolls smoothly. Filters (time range, variables, flags) and the time order run on the server.
+ * The records of a version, page by page from the server (keyset on time, or on a variable's value), rendered as a
+ * virtual list so a whole month scrolls smoothly. Filters (time range, variables, flags) and the order run on the
+ * server: the time header turns the time order round; a value header sorts by that variable, largest first, then
+ * smallest first, then back to time.
  */
 export function RecordsTable({
   versionId,
@@ -109,8 +112,20 @@ export function RecordsTable({
     if (from && to && to < from) return setFormError("The end of the range is before its start.");
     if (!shown.length) return setFormError("Choose at least one variable to show.");
     setFormError(null);
-    setFilter({ variables: shown, from, to, order, flags: flagsOnly });
+    setFilter({ variables: shown, from, to, order, flags: flagsOnly, sort: filter.sort && shown.includes(filter.sort) ? filter.sort : undefined });
   };
+  /** The next order of a header: time flips; a variable goes largest first → smallest first → back to time. */
+  const sortBy = (key: string | null) => {
+    if (key === null) {
+      const o = filter.sort ? "asc" : filter.order === "asc" ? "desc" : "asc";
+      setOrder(o);
+      return setFilter({ ...filter, sort: undefined, order: o });
+    }
+    if (filter.sort !== key) return setFilter({ ...filter, sort: key, order: "desc" });
+    if (filter.order === "desc") return setFilter({ ...filter, order: "asc" });
+    setFilter({ ...filter, sort: undefined, order });
+  };
+  const sortLabel = filter.sort ? (labels[filter.sort]?.label ?? filter.sort) : null;
   const toggle = <T,>(list: T[], x: T) => (list.includes(x) ? list.filter((y) => y !== x) : [...list, x]);
   const modelRows = table.getRowModel().rows;
   // Fixed widths, so the header grid and the scrolled body grid line up.
@@ -167,31 +182,38 @@ export function RecordsTable({
           <div role="rowgroup" className="min-w-max">
             {table.getHeaderGroups().map((g) => (
               <div role="row" key={g.id} className="grid bg-sunken" style={{ gridTemplateColumns: template }}>
-                {g.headers.map((hd, i) => (
-                  <div
-                    role="columnheader"
-                    key={hd.id}
-                    aria-sort={i === 0 ? (filter.order === "asc" ? "ascending" : "descending") : undefined}
-                    className={i === 0 ? "border-b border-line px-3 py-2 text-left text-xs font-semibold uppercase tracking-wide text-muted" : "border-b border-line px-3 py-2 text-right text-xs font-semibold uppercase tracking-wide text-muted"}
-                  >
-                    {i === 0 ? (
+                {g.headers.map((hd, i) => {
+                  const key = i === 0 ? null : hd.id;
+                  const active = key === (filter.sort ?? null);
+                  const arrow = active ? (filter.order === "asc" ? "↑" : "↓") : "";
+                  return (
+                    <div
+                      role="columnheader"
+                      key={hd.id}
+                      aria-sort={active ? (filter.order === "asc" ? "ascending" : "descending") : undefined}
+                      className={clsx("border-b border-line px-3 py-2 text-xs font-semibold uppercase tracking-wide", i === 0 ? "text-left" : "text-right", active ? "text-fg" : "text-muted")}
+                    >
                       <button
                         type="button"
-                        className="uppercase"
-                        onClick={() => {
-                          const o = filter.order === "asc" ? "desc" : "asc";
-                          setOrder(o);
-                          setFilter({ ...filter, order: o });
-                        }}
-                        title="Change the time order"
+                        className="uppercase hover:text-fg"
+                        onClick={() => sortBy(key)}
+                        title={
+                          key === null
+                            ? filter.sort
+                              ? "Sort by time"
+                              : "Turn the time order round"
+                            : !active
+                              ? "Sort by this variable, largest first"
+                              : filter.order === "desc"
+                                ? "Smallest first"
+                                : "Back to time order"
+                        }
                       >
-                        <table.FlexRender header={hd} /> {filter.order === "asc" ? "↑" : "↓"}
+                        <table.FlexRender header={hd} /> {arrow}
                       </button>
-                    ) : (
-                      <table.FlexRender header={hd} />
-                    )}
-                  </div>
-                ))}
+                    </div>
+                  );
+                })}
               </div>
             ))}
           </div>
@@ -219,6 +241,7 @@ export function RecordsTable({
             </div>
           </div>
           <p className="border-t border-line px-3 py-1.5 text-xs text-muted" role="status">
+            {sortLabel ? `Sorted by ${sortLabel}, ${filter.order === "desc" ? "largest" : "smallest"} first (records without a value of it are left out). ` : ""}
             {rows.length.toLocaleString("en")} records loaded{q.hasNextPage ? "; more load as you scroll" : ", all that match"}
             {q.isFetchingNextPage ? " · loading…" : ""}
           </p>
