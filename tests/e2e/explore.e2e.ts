@@ -113,6 +113,16 @@ test("mark a stretch, flag it suspect with a reason, see it in plot and table", 
   await expect.poll(async () => (await speeds())[0]!).toBeLessThan(largest);
   await shot(page, "explore-records-sorted");
 
+  // The QC report's worst stretches open the plots on the stretch, with that variable's plot in view.
+  await page.getByTestId("tab-qc").click();
+  await page.getByRole("row", { name: /^Wind speed/ }).getByRole("button", { name: "Show in plots" }).first().click();
+  await expect(page).toHaveURL(/variable=wind_speed/);
+  await expect(page.locator('[data-variables~="wind_speed"]')).toBeInViewport();
+  // A variable further down is scrolled to: its plot in view, the first plot out of it.
+  await page.goto(`/versions/${versionId}/explore?variable=air_temperature`);
+  await expect(page.locator('[data-variables~="air_temperature"]')).toBeInViewport();
+  await expect(page.locator('[data-variables~="wind_speed"]')).not.toBeInViewport();
+
   await page.getByTestId("tab-map").click();
   await expect(page.getByTestId("map-land").first()).toBeVisible();
   await shot(page, "explore-map");

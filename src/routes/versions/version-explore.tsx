@@ -212,7 +212,7 @@ export function Component() {
           ) : null}
 
           {view === "records" ? <RecordsTable versionId={v.id} variables={variables} labels={labels} initialFrom={from ?? undefined} initialTo={to ?? undefined} /> : null}
-          {view === "qc" ? <QcReportView versionId={v.id} onJump={(a, b) => set({ view: null, from: a, to: b })} /> : null}
+          {view === "qc" ? <QcReportView versionId={v.id} onJump={(a, b, focus) => set({ view: null, from: a, to: b, variable: focus?.variable ?? null, platform: focus?.platform ?? null })} /> : null}
           {view === "map" ? <VersionMap versionId={v.id} /> : null}
         </>
       )}

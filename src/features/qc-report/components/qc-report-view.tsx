@@ -43,7 +43,10 @@ function Swatch({ flag }: { flag: number }) {
  * The QC report of a version: counts per test × variable from the QC run, flag totals per variable, a timeline
  * of the worst flag per hour (or coarser) and the worst stretches, each with a jump into the plots.
  */
-export function QcReportView({ versionId, onJump }: { versionId: string; onJump: (from: string, to: string) => void }) {
+/** Opens the plots on a window; `focus` names the variable (and a fleet's platform) to bring into view. */
+export type JumpTo = (from: string, to: string, focus?: { variable: string; platform?: string }) => void;
+
+export function QcReportView({ versionId, onJump }: { versionId: string; onJump: JumpTo }) {
   const q = useQcReport(versionId);
   if (q.isPending) return <Loading label="Loading the QC report…" />;
   if (q.error) return <Alert tone="attention" title="The QC report could not be loaded">{getErrorMessage(q.error)}</Alert>;
@@ -151,7 +154,7 @@ export function QcReportView({ versionId, onJump }: { versionId: string; onJump:
                   </Td>
                   <Td numeric>{s.flaggedMinutes}</Td>
                   <Td>
-                    <Button size="sm" variant="ghost" onClick={() => jumpAround(s.from, s.to, onJump)}>
+                    <Button size="sm" variant="ghost" onClick={() => jumpAround(s.from, s.to, onJump, { variable: s.variable, platform: s.platform || undefined })}>
                       Show in plots
                     </Button>
                   </Td>
@@ -165,15 +168,15 @@ export function QcReportView({ versionId, onJump }: { versionId: string; onJump:
   );
 }
 
-/** Opens the plots on a stretch with some context on both sides. */
-function jumpAround(from: string, to: string, onJump: (from: string, to: string) => void) {
+/** Opens the plots on a stretch with some context on both sides, the variable's plot in view. */
+function jumpAround(from: string, to: string, onJump: JumpTo, focus?: { variable: string; platform?: string }) {
   const a = Date.parse(from);
   const b = Date.parse(to);
   const pad = Math.max((b - a) * 0.5, 30 * 60_000);
-  onJump(new Date(a - pad).toISOString(), new Date(b + pad).toISOString());
+  onJump(new Date(a - pad).toISOString(), new Date(b + pad).toISOString(), focus);
 }
 
-function Timeline({ report, labels, onJump }: { report: QcReport; labels: Record<string, { label: string }>; onJump: (from: string, to: string) => void }) {
+function Timeline({ report, labels, onJump }: { report: QcReport; labels: Record<string, { label: string }>; onJump: JumpTo }) {
   const t = report.timeline!;
   const W = 900;
   const LEFT = 0;
@@ -210,7 +213,7 @@ function Timeline({ report, labels, onJump }: { report: QcReport; labels: Record
                   fill={fillOf(f)}
                   fillOpacity={opacityOf(f)}
                   className={f >= 3 ? "cursor-pointer" : undefined}
-                  onClick={() => jumpAround(iso(t.t0 + i * t.stepS), iso(t.t0 + (i + 1) * t.stepS), onJump)}
+                  onClick={() => jumpAround(iso(t.t0 + i * t.stepS), iso(t.t0 + (i + 1) * t.stepS), onJump, { variable: r.variable })}
                 >
                   <title>{`${labels[r.variable]?.label ?? r.variable}, ${formatUtc(iso(t.t0 + i * t.stepS))}: worst flag ${f}`}</title>
                 </rect>
