@@ -6,13 +6,14 @@ export function Toaster() {
   const [toasts, setToasts] = useState<Toast[]>([]);
   useEffect(() => subscribeToasts(setToasts), []);
   return (
-    <div aria-live="polite" className="pointer-events-none fixed inset-x-0 bottom-3 z-50 flex flex-col items-center gap-2 px-3">
+    // Top right under the header on wide screens, clear of the buttons that end most forms.
+    <div aria-live="polite" className="pointer-events-none fixed inset-x-0 bottom-3 z-50 flex flex-col items-center gap-2 px-3 lg:inset-x-auto lg:bottom-auto lg:right-4 lg:top-[4.5rem] lg:items-end lg:px-0">
       {toasts.map((t) => (
         <div
           key={t.id}
           role={t.tone === "error" ? "alert" : "status"}
           className={clsx(
-            "pointer-events-auto flex max-w-lg items-start gap-3 rounded-md border bg-surface px-4 py-2.5 shadow-lg",
+            "pointer-events-auto flex max-w-lg items-start lg:max-w-sm gap-3 rounded-md border bg-surface px-4 py-2.5 shadow-lg",
             t.tone === "error" ? "border-signal" : "border-line",
           )}
         >
