@@ -30,6 +30,21 @@ export function Component() {
   if (isPending) return <Loading label="Loading the dataset…" />;
   if (error) throw error;
   const member = canContribute(me, d.projectId);
+  const versions = (
+    <Section title="Versions" description="Each version is built from an upload, checked, reviewed by a curator, then released unchanged.">
+      {d.versions.length === 0 ? (
+        <EmptyState title="No versions yet">
+          {member ? "The first version is created when a logger file is uploaded and processed." : "Nothing has been released for this dataset yet."}
+        </EmptyState>
+      ) : (
+        <VersionsTable
+          items={d.versions}
+          // Versions still being built (or that failed) open their progress page; built ones their review page.
+          linkTo={member ? (v) => (["draft", "processing", "failed"].includes(v.state) ? paths.version(v.id) : paths.reviewVersion(v.id)) : undefined}
+        />
+      )}
+    </Section>
+  );
 
   return (
     <>
@@ -74,23 +89,24 @@ export function Component() {
         <div className="min-w-0 space-y-10">
           {d.description ? <p className="max-w-3xl whitespace-pre-line">{d.description}</p> : null}
 
-          <LandingMain datasetId={d.id} />
-
-          <Section title="Versions" description="Each version is built from an upload, checked, reviewed by a curator, then released unchanged.">
-            {d.versions.length === 0 ? (
-              <EmptyState title="No versions yet">
-                {member
-                  ? "The first version is created when a logger file is uploaded and processed."
-                  : "Nothing has been released for this dataset yet."}
-              </EmptyState>
-            ) : (
-              <VersionsTable
-                items={d.versions}
-                // Versions still being built (or that failed) open their progress page; built ones their review page.
-                linkTo={member ? (v) => (["draft", "processing", "failed"].includes(v.state) ? paths.version(v.id) : paths.reviewVersion(v.id)) : undefined}
-              />
-            )}
-          </Section>
+          {/* Members come here to add the next file and follow its versions, so that comes first for them;
+              visitors see the released data first. */}
+          {member ? (
+            <>
+              {versions}
+              <Section title="Uploads" description="Logger files for this dataset, checked by the server when they arrive. Stored once, never changed.">
+                <div data-testid="uploads-area">
+                  <DatasetUploads datasetId={d.id} canUpload={member} />
+                </div>
+              </Section>
+              <LandingMain datasetId={d.id} />
+            </>
+          ) : (
+            <>
+              <LandingMain datasetId={d.id} />
+              {versions}
+            </>
+          )}
 
           {(() => {
             // The map shows the newest version with records the caller may read (released ones for visitors).
@@ -105,14 +121,6 @@ export function Component() {
               </Section>
             ) : null;
           })()}
-
-          {member ? (
-            <Section title="Uploads" description="Logger files for this dataset, checked by the server when they arrive. Stored once, never changed.">
-              <div data-testid="uploads-area">
-                <DatasetUploads datasetId={d.id} canUpload={member} />
-              </div>
-            </Section>
-          ) : null}
         </div>
 
         <aside aria-label="Dataset details" className="space-y-4">
