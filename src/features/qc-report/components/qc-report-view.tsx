@@ -7,6 +7,7 @@ import { FlagCountsTable } from "@/components/ui/flag-counts-table";
 import { Loading } from "@/components/ui/loading";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
 import { getErrorMessage } from "@/lib/api-client";
+import { testWord } from "@/lib/qc-tests";
 import { formatUtc } from "@/lib/format";
 import { useQcReport } from "../api/get-qc-report";
 
@@ -88,7 +89,7 @@ export function QcReportView({ versionId, onJump }: { versionId: string; onJump:
                 <Th>Variable</Th>
                 {tests.map((t) => (
                   <Th key={t} numeric>
-                    {t.replace(/_/g, " ")}
+                    {testWord(t)}
                   </Th>
                 ))}
               </tr>

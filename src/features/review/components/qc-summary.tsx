@@ -4,6 +4,7 @@ import { derivedVocabulary, vocabulary } from "@shared/vocabulary";
 import { Link } from "react-router-dom";
 import { paths } from "@/config/paths";
 import { formatUtc } from "@/lib/format";
+import { testWord } from "@/lib/qc-tests";
 import { FlagBadge, type QcFlag } from "@/components/ui/flag-badge";
 import { FlagCountsTable } from "@/components/ui/flag-counts-table";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
@@ -17,19 +18,6 @@ export function variableLabel(key: string): string {
   );
 }
 
-const testWords: Record<string, string> = {
-  GAP: "timing / gap",
-  SYNTAX: "syntax",
-  LOCATION: "location",
-  GROSS_RANGE: "gross range",
-  CLIMATOLOGY: "climatology",
-  SPIKE: "spike",
-  RATE_OF_CHANGE: "rate of change",
-  FLAT_LINE: "flat line",
-  MULTI_VARIATE: "multi-variate",
-  IMPLIED_SPEED: "implied speed",
-  ATTENUATED_SIGNAL: "attenuated signal",
-};
 
 const int = (n: number) => Math.round(n).toLocaleString("en-GB").replace(/,/g, "\u202f");
 
@@ -115,7 +103,7 @@ export function QcSummary({ review }: { review: VersionReview }) {
                 Object.entries(t).map(([test, [suspect, fail]]) => (
                   <Tr key={`${variable}-${test}`}>
                     <Td>{variableLabel(variable)}</Td>
-                    <Td>{testWords[test] ?? test}</Td>
+                    <Td>{testWord(test)}</Td>
                     <Td numeric>{int(suspect)}</Td>
                     <Td numeric>{int(fail)}</Td>
                   </Tr>

@@ -3,6 +3,7 @@ import { derivedVocabulary, vocabulary } from "@shared/vocabulary";
 import { FlagGlyph, type QcFlag } from "@/components/ui/flag-badge";
 import { Table, Td, Th } from "@/components/ui/table";
 import { UtcTime } from "@/components/ui/utc-time";
+import { testWord } from "@/lib/qc-tests";
 
 const FLAGS: QcFlag[] = [1, 2, 3, 4, 9];
 const flagWords: Record<QcFlag, string> = { 1: "pass", 2: "not evaluated", 3: "suspect", 4: "fail", 9: "missing" };
@@ -168,7 +169,7 @@ export function QcRunTable({ run }: { run: QcRunReport }) {
                 <Td>
                   {label(r.variable)} <span className="font-mono text-xs text-muted">{r.variable}</span>
                 </Td>
-                <Td className="font-mono text-sm">{r.test.toLowerCase()}</Td>
+                <Td>{testWord(r.test)}</Td>
                 <Td numeric>{int.format(r.suspect)}</Td>
                 <Td numeric>{int.format(r.fail)}</Td>
               </tr>
