@@ -12,7 +12,9 @@ import type { SessionUser } from "../middleware/require-session";
  * Demo time series for the invented Merrow Shelf scenario, generated with code (shared/demo): one month of
  * 1-minute data per mooring and twenty days of half-hourly drifter fixes. Each becomes an upload and a
  * version built through the real pipeline. Merrow North's version is then reviewed by a second person and
- * released, so the public catalogue has something to show; Merrow South's waits in the review queue.
+ * released, so the public catalogue has something to show; Merrow South's waits in the review queue and
+ * Merrow Inshore's is ready for its contributor to submit. With three moorings built, the project's array
+ * diagnostics (wind-stress curl, Ekman pumping, Sverdrup transport) are computed as the worker would.
  * Datasets that already have versions are left alone, so a second start changes nothing.
  */
 export async function seedDemoSeries(db: Db, log: (m: string) => void = () => {}) {
@@ -31,12 +33,13 @@ export async function seedDemoSeries(db: Db, log: (m: string) => void = () => {}
   const curator = await person("curator@merrow.example");
 
   const rows = await db
-    .select({ id: datasets.id, title: datasets.title, platformId: platforms.id, platform: platforms.name, kind: platforms.kind, lat: deployments.latitude, lon: deployments.longitude })
+    .select({ id: datasets.id, projectId: datasets.projectId, title: datasets.title, platformId: platforms.id, platform: platforms.name, kind: platforms.kind, lat: deployments.latitude, lon: deployments.longitude })
     .from(datasets)
     .innerJoin(deployments, eq(deployments.id, datasets.deploymentId))
     .innerJoin(platforms, eq(platforms.id, deployments.platformId))
     .orderBy(platforms.name);
 
+  const builtMoorings = new Set<string>();
   for (const ds of rows) {
     const [existing] = await db.select({ id: versions.id }).from(versions).where(eq(versions.datasetId, ds.id)).limit(1);
     if (existing) continue;
@@ -50,7 +53,7 @@ export async function seedDemoSeries(db: Db, log: (m: string) => void = () => {}
         : {
             file: `${ds.platform.toLowerCase().replace(/\s+/g, "-")}-2026-09.csv`,
             csv: mooringCsv({
-              seed: ds.platform.includes("North") ? 4101 : 4102,
+              seed: ds.platform.includes("North") ? 4101 : ds.platform.includes("South") ? 4102 : 4103,
               start: Date.UTC(2026, 8, 1) / 1000,
               durationS: 30 * 86400,
               intervalS: 60,
@@ -79,13 +82,22 @@ export async function seedDemoSeries(db: Db, log: (m: string) => void = () => {}
     log(`demo series: ${ds.title} → version ${created.number} ${v?.state}`);
     if (v?.state !== "ready") continue;
 
-    if (ds.kind === "mooring") {
+    if (ds.kind === "mooring") builtMoorings.add(ds.projectId);
+    if (ds.kind === "mooring" && !ds.platform.includes("Inshore")) {
       await submitVersion(contributor, created.id, { note: "September 2026 from the logger download; anemometer cleaned on the 12th." });
       if (ds.platform.includes("North")) {
         await approveVersion(curator, created.id, { reason: "QC report and plots look sound; the storm on the 13th is real." });
         await releaseVersion(curator, created.id, { notes: "First release of Merrow North surface data (invented demo data)." });
         log(`demo series: ${ds.title} → released`);
       }
+    }
+  }
+  // Built here rather than queued, so the project page shows the array's series when the app opens.
+  if (builtMoorings.size) {
+    const { computeArrayDiagnostics } = await import("../jobs/array-diagnostics.job");
+    for (const projectId of builtMoorings) {
+      const r = await computeArrayDiagnostics(projectId);
+      log(`demo series: array diagnostics → ${r.steps} hourly steps${r.note ? ` (${r.note})` : ""}`);
     }
   }
 }

@@ -6,8 +6,8 @@ import type { Db } from "./client";
 import { account, datasets, deployments, memberships, platforms, projects, user } from "./schema";
 
 /**
- * The demo scenario, all invented: the Merrow Shelf Observing Programme runs two moorings on a
- * west-facing shelf and a fleet of surface drifters. People, names and places are made up;
+ * The demo scenario, all invented: the Merrow Shelf Observing Programme runs three moorings on a
+ * west-facing shelf (enough for the array diagnostics) and a fleet of surface drifters. People, names and places are made up;
  * only the ocean coordinates are real water.
  */
 export const demoPassword = "tauline-demo-2026";
@@ -42,7 +42,7 @@ export async function seedDemo(db: Db) {
         slug: "merrow-shelf",
         name: "Merrow Shelf Observing Programme",
         description:
-          "Two surface moorings and a fleet of drogued drifters watching wind-driven upwelling on an invented west-facing shelf. All names and data in this demo are made up.",
+          "Three surface moorings and a fleet of drogued drifters watching wind-driven upwelling on an invented west-facing shelf. All names and data in this demo are made up.",
       })
       .returning();
   }
@@ -60,6 +60,7 @@ export async function seedDemo(db: Db) {
   };
   const north = await ensurePlatform("Merrow North", "mooring", "Surface mooring on the outer shelf, 3-cup anemometer and single-point current meter.");
   const south = await ensurePlatform("Merrow South", "mooring", "Surface mooring near the shelf break.");
+  const inshore = await ensurePlatform("Merrow Inshore", "mooring", "Surface mooring on the inner shelf, sonic anemometer and single-point current meter.");
   const fleet = await ensurePlatform("Merrow drifter fleet", "drifter", "Six surface drifters drogued at 15 m, released together.");
 
   const ensureDeployment = async (platformId: string, values: Omit<typeof deployments.$inferInsert, "platformId">) => {
@@ -89,6 +90,16 @@ export async function seedDemo(db: Db) {
     watchCircleRadiusM: 800,
     ...common,
   });
+  const dInshore = await ensureDeployment(inshore, {
+    name: "MI-2026-A",
+    startTime: new Date("2026-03-03T00:00:00Z"),
+    endTime: new Date("2026-09-30T00:00:00Z"),
+    latitude: 41.43,
+    longitude: -124.42,
+    waterDepthM: 75,
+    watchCircleRadiusM: 150,
+    ...common,
+  });
   const dFleet = await ensureDeployment(fleet, { name: "Release 2026-05", startTime: new Date("2026-05-10T00:00:00Z"), notes: "Released along 41.4°N." });
 
   const ensureDataset = async (title: string, deploymentId: string, description: string) => {
@@ -99,6 +110,7 @@ export async function seedDemo(db: Db) {
   };
   await ensureDataset("Merrow North surface met and currents, 2026", dNorth, "Wind, air temperature, pressure, humidity, SST and 10 m currents at 1-minute intervals.");
   await ensureDataset("Merrow South surface met and currents, 2026", dSouth, "Wind, met and 10 m currents at the shelf break, 1-minute intervals.");
+  await ensureDataset("Merrow Inshore surface met and currents, 2026", dInshore, "Wind, met and 10 m currents on the inner shelf, 1-minute intervals.");
   await ensureDataset("Merrow drifter tracks, May 2026 release", dFleet, "Positions of six drogued drifters every 30 minutes.");
   return { projectId, users: ids };
 }

@@ -1,4 +1,9 @@
+import { useMemo, useState } from "react";
+import type { PlotSeries } from "@shared/schemas/explore";
 import type { ArrayDiagnostics } from "@shared/schemas/versions";
+import { Button } from "@/components/ui/button";
+import type { PanelDef } from "@/features/plots/components/panels";
+import { PlotPanel } from "@/features/plots/components/plot-panel";
 import { getErrorMessage } from "@/lib/api-client";
 import { Alert } from "@/components/ui/alert";
 import { EmptyState } from "@/components/ui/empty-state";
@@ -30,7 +35,47 @@ export function ArrayDiagnosticsSection({ projectId }: { projectId: string }) {
   );
 }
 
+/** The three series as plot panels, in the units the tables use. */
+const PANELS: (PanelDef & { pick: (d: ArrayDiagnostics) => (number | null)[]; scale: number })[] = [
+  { id: "array-curl", title: "Wind-stress curl", unit: "10-7 N m-3", variables: [{ key: "curl", label: "curl of the plane fit" }], pick: (d) => d.curl, scale: 1e7 },
+  { id: "array-pumping", title: "Ekman pumping, upward positive", unit: "m day-1", variables: [{ key: "ekman_pumping", label: "Ekman pumping" }], pick: (d) => d.ekmanPumping, scale: 86400 },
+  { id: "array-sverdrup", title: "Sverdrup transport per unit width", unit: "m2 s-1", variables: [{ key: "sverdrup", label: "Sverdrup transport" }], pick: (d) => d.sverdrup, scale: 1 },
+];
+
+/** Every step as CSV in SI units (the numbers behind the plots), for the browser to save. */
+function downloadCsv(d: ArrayDiagnostics) {
+  const num = (x: number | null) => (x === null ? "" : String(x));
+  const lines = ["time_utc,moorings_used,wind_stress_curl_N_m-3,ekman_pumping_upward_m_s-1,sverdrup_transport_m2_s-1"];
+  d.time.forEach((t, i) => lines.push([iso(t), d.used[i], num(d.curl[i]!), num(d.ekmanPumping[i]!), num(d.sverdrup[i]!)].join(",")));
+  const url = URL.createObjectURL(new Blob([lines.join("\n") + "\n"], { type: "text/csv" }));
+  const a = document.createElement("a");
+  a.href = url;
+  a.download = `array-diagnostics-${iso(d.time[0]!).slice(0, 10)}-to-${iso(d.time[d.time.length - 1]!).slice(0, 10)}.csv`;
+  a.click();
+  URL.revokeObjectURL(url);
+}
+
+/** One step per hour with a value: a "bucket" whose min, mean and max are that value. */
+function seriesOf(d: ArrayDiagnostics): PlotSeries[] {
+  return PANELS.map((p) => {
+    const out: PlotSeries = { variable: p.variables[0]!.key, platform: "", unit: p.unit, t: [], min: [], max: [], mean: [], n: [], worstFlag: [] };
+    p.pick(d).forEach((x, i) => {
+      if (x === null) return;
+      const v = x * p.scale;
+      out.t.push(d.time[i]!);
+      out.min.push(v);
+      out.max.push(v);
+      out.mean.push(v);
+      out.n.push(1);
+      out.worstFlag.push(1);
+    });
+    return out;
+  });
+}
+
 function Body({ d }: { d: ArrayDiagnostics }) {
+  const series = useMemo(() => seriesOf(d), [d]);
+  const [zoom, setZoom] = useState<{ from: number; to: number } | null>(null);
   const steps = d.time.length;
   if (!steps || !d.curl.some((x) => x !== null))
     return (
@@ -54,6 +99,31 @@ function Body({ d }: { d: ArrayDiagnostics }) {
         ) : null}
       </p>
       {d.note ? <p className="text-sm text-muted">{d.note}</p> : null}
+      <div className="flex flex-wrap items-center gap-3 text-sm text-muted">
+        <span>Hourly values; drag across a plot to zoom in.</span>
+        <Button size="sm" variant="secondary" onClick={() => downloadCsv(d)}>
+          CSV of every step
+        </Button>
+        {zoom ? (
+          <Button size="sm" variant="secondary" onClick={() => setZoom(null)}>
+            Whole period
+          </Button>
+        ) : null}
+      </div>
+      {PANELS.map((p) => (
+        <PlotPanel
+          key={p.id}
+          panel={p}
+          series={series}
+          from={zoom?.from ?? rows[0]!.t}
+          to={zoom?.to ?? rows[rows.length - 1]!.t + d.stepS}
+          stepS={d.stepS}
+          hideFlagged={false}
+          shades={[]}
+          onSelect={(from, to) => setZoom({ from, to })}
+          syncKey={`array-${d.projectId}`}
+        />
+      ))}
       <Table caption="Array diagnostics: range over all steps">
         <thead>
           <tr>
