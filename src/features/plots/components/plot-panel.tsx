@@ -113,6 +113,8 @@ export function PlotPanel({
     const opts: uPlot.Options = {
       width: el.clientWidth || 800,
       height: 190,
+      // Room on the right for the last time label, which uPlot centres on its tick.
+      padding: [8, 40, 0, 0],
       legend: { show: false },
       tzDate: (ts) => uPlot.tzDate(new Date(ts * 1e3), "Etc/UTC"),
       cursor: { sync: { key: syncKey, setSeries: false }, drag: { x: true, y: false, setScale: false }, points: { show: false } },
