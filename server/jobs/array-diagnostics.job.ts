@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { arrayDiagnostics } from "@shared/compute/array";
+import { haversine } from "@shared/compute/geodesy";
 import { idSchema } from "@shared/schemas/common";
 import { builtVersionStates } from "@shared/schemas/versions";
 import { pool } from "../db/client";
@@ -17,6 +18,12 @@ import { enqueue } from "./queue";
 export const ARRAY_DIAGNOSTICS = "array-diagnostics";
 const payloadSchema = z.object({ projectId: idSchema });
 export const ARRAY_STEP_S = 3600;
+/**
+ * The most an array's moorings may lie from its centre mooring, km. A plane fit over moorings an ocean apart is
+ * not a local curl (and its local x, y coordinates no longer hold); moorings further out are left out and named.
+ * Common practice for regional arrays (tens to a few hundred km); not from a single source.
+ */
+export const ARRAY_MAX_RADIUS_KM = 500;
 
 export function enqueueArrayDiagnostics(projectId: string) {
   return enqueue(ARRAY_DIAGNOSTICS, { projectId }, { retryLimit: 3, retryDelay: 5 });
@@ -31,6 +38,34 @@ interface Input {
   longitude: number;
 }
 
+/**
+ * The array's moorings: the centre is the mooring with the most others within ARRAY_MAX_RADIUS_KM (ties: the
+ * smallest summed distance), and the array is it and those others. Great-circle distances, so the date line is no
+ * edge. O(n²) in the project's moorings.
+ */
+export function arrayMembers<T extends { latitude: number; longitude: number }>(all: T[]): { inputs: T[]; leftOut: { input: T; km: number }[] } {
+  if (all.length === 0) return { inputs: [], leftOut: [] };
+  const km = (a: T, b: T) => haversine(a.latitude, a.longitude, b.latitude, b.longitude) / 1000;
+  let best = 0;
+  let bestCount = -1;
+  let bestSum = Infinity;
+  all.forEach((a, i) => {
+    const d = all.map((b) => km(a, b));
+    const count = d.filter((x) => x <= ARRAY_MAX_RADIUS_KM).length;
+    const sum = d.reduce((s, x) => s + x, 0);
+    if (count > bestCount || (count === bestCount && sum < bestSum)) [best, bestCount, bestSum] = [i, count, sum];
+  });
+  const centre = all[best]!;
+  const inputs: T[] = [];
+  const leftOut: { input: T; km: number }[] = [];
+  for (const x of all) {
+    const d = km(centre, x);
+    if (d <= ARRAY_MAX_RADIUS_KM) inputs.push(x);
+    else leftOut.push({ input: x, km: d });
+  }
+  return { inputs, leftOut };
+}
+
 /** Computes and stores the project's array series (idempotent: replaces the previous result). */
 export async function computeArrayDiagnostics(projectId: string): Promise<{ steps: number; note: string | null }> {
   const { rows } = await pool.query(
@@ -43,7 +78,8 @@ export async function computeArrayDiagnostics(projectId: string): Promise<{ step
       order by d.id, v.number desc`,
     [projectId, builtVersionStates],
   );
-  const inputs: Input[] = rows.map((r) => ({ datasetId: r.dataset_id, versionId: r.version_id, versionNumber: r.number, title: r.title, latitude: r.latitude, longitude: r.longitude }));
+  const all: Input[] = rows.map((r) => ({ datasetId: r.dataset_id, versionId: r.version_id, versionNumber: r.number, title: r.title, latitude: r.latitude, longitude: r.longitude }));
+  const { inputs, leftOut } = arrayMembers(all);
   // hour → per input [taux, tauy]
   const byStep = new Map<number, (readonly [number, number] | undefined)[]>();
   for (const [k, inp] of inputs.entries()) {
@@ -68,9 +104,14 @@ export async function computeArrayDiagnostics(projectId: string): Promise<{ step
     }
   }
   const steps = [...byStep.entries()].filter(([, r]) => r.filter(Boolean).length >= 3).sort((a, b) => a[0] - b[0]);
-  let note: string | null = null;
-  if (inputs.length < 3) note = `Array diagnostics need three or more moorings with a position and a built version; this project has ${inputs.length}.`;
-  else if (!steps.length) note = "The moorings' records do not overlap in time (no hour with stress from three or more moorings).";
+  let note: string | null = leftOut.length
+    ? `Left out, more than ${ARRAY_MAX_RADIUS_KM} km from the array's centre mooring: ${leftOut.map((x) => `${x.input.title} (${Math.round(x.km).toLocaleString("en-GB")} km)`).join("; ")}.`
+    : null;
+  const more = (s: string) => (note = note ? `${note} ${s}` : s);
+  if (inputs.length < 3)
+    more(`Array diagnostics need three or more moorings within ${ARRAY_MAX_RADIUS_KM} km of each other, with a position and a built version; this project has ${inputs.length}.`);
+  else if (!steps.length) more("The moorings' records do not overlap in time (no hour with stress from three or more moorings).");
+  let stepNote = false;
   const t0 = steps.length ? steps[0]![0] : 0;
   const len = steps.length ? (steps[steps.length - 1]![0] - t0) / ARRAY_STEP_S + 1 : 0;
   const curl = new Array<number>(len).fill(NaN);
@@ -91,7 +132,10 @@ export async function computeArrayDiagnostics(projectId: string): Promise<{ step
       curl[j] = res.curl;
       pumping[j] = res.ekmanPumping;
       sverdrup[j] = res.sverdrup;
-    } else if (!note) note = `Some steps were not computed: ${res.reason}.`;
+    } else if (!stepNote) {
+      stepNote = true;
+      more(`Some steps were not computed: ${res.reason}.`);
+    }
   }
   await pool.query(
     `insert into array_diagnostic_series (project_id, computed_at, inputs, step_s, t0, curl, ekman_pumping, sverdrup, used, note)

@@ -246,6 +246,24 @@ describe("GET /api/projects/:id/array-diagnostics", () => {
     expect(Math.abs(expected)).toBeGreaterThan(1e-12);
     expect(Math.abs(body!.ekmanPumping[0]! / expected - 1)).toBeLessThan(1e-3);
     expect(body!.used[0]).toBe(3);
+
+    // A fourth mooring an ocean away (invented, off another coast) is no part of this array: it is left out and
+    // named, and the array's series stay as they were (a plane fit across a basin is not a local curl).
+    const far = await makeMooringDataset(projectId, { latitude: 41.3, longitude: -124.8 });
+    const farUpload = await storeUpload(far.datasetId, contributor.id, text);
+    const farVersion = await as(contributor.cookie).post(`/api/datasets/${far.datasetId}/versions`).send({ uploadId: farUpload, columnMap: mooringMap(), mode: "replace" });
+    await waitForVersion(farVersion.body.id, ["ready"]);
+    let after: ArrayDiagnostics | undefined;
+    const until2 = Date.now() + 60_000;
+    while (Date.now() < until2) {
+      after = (await as(contributor.cookie).get(`/api/projects/${projectId}/array-diagnostics`)).body;
+      if (after!.note?.includes("Left out")) break;
+      await new Promise((r) => setTimeout(r, 250));
+    }
+    expect(after!.note).toMatch(/^Left out, more than 500 km from the array's centre mooring: .+ \(\d[\d,]* km\)\.$/);
+    expect(after!.inputs.map((i) => i.datasetId).sort()).toEqual(body!.inputs.map((i) => i.datasetId).sort());
+    expect(after!.curl).toEqual(body!.curl);
+    expect(after!.ekmanPumping).toEqual(body!.ekmanPumping);
   });
 });
 
