@@ -14,7 +14,10 @@ const testEnv = {
   DATABASE_URL: `postgres://postgres@127.0.0.1:${testPgPort}/tauline_api_${process.env.TEST_RUN_ID}`,
   SMTP_PORT: process.env.TEST_SMTP_PORT ?? String(20000 + (Number(process.env.TEST_RUN_ID) % 20000)),
   PUBLIC_URL: "http://127.0.0.1:3999",
+  // Rate-limit counts are shared through the database by every test file's app (as by app servers in production),
+  // so the suite lifts the per-client limits; the tests of the limits give their apps a scope of their own.
   AUTH_RATE_LIMIT: "1000",
+  DOWNLOAD_RATE_LIMIT: "100000",
   STORAGE_DIR: "storage-test",
   LOG_LEVEL: "silent",
 };

@@ -37,6 +37,12 @@ import { annotationsApi, datasetAnnotationsApi } from "./routes/annotations";
 export interface AppOptions {
   /** Sign-in attempts per window per IP (defaults from env). */
   authRateLimit?: number;
+  /**
+   * Prefix of this app's rate-limit keys (sign-in per client, anonymous downloads). The counts are shared through
+   * PostgreSQL by every app with the same scope, as app servers behind a balancer should; tests that count to a
+   * limit give their app a scope of its own.
+   */
+  rateLimitScope?: string;
   /** Serve the built client from dist/ (off in API tests). */
   serveClient?: boolean;
 }
@@ -78,7 +84,7 @@ export function createApp(options: AppOptions = {}): Express {
 
   app.use("/api", checkOrigin([env.PUBLIC_URL]));
   // better-auth and (later) tus read the raw request stream, so they come before the JSON body parser.
-  app.use(SENSITIVE_AUTH_PATHS, authRateLimit(options.authRateLimit ?? env.AUTH_RATE_LIMIT, env.AUTH_RATE_WINDOW_S));
+  app.use(SENSITIVE_AUTH_PATHS, authRateLimit(options.authRateLimit ?? env.AUTH_RATE_LIMIT, env.AUTH_RATE_WINDOW_S, options.rateLimitScope));
   app.all("/api/auth/{*any}", databaseReachable, toNodeHandler(auth));
   // Resumable uploads (tus) read the raw body too; GET falls through to the JSON detail route.
   app.all(["/api/uploads", "/api/uploads/{*any}"], createTusMount().handler);
@@ -86,7 +92,7 @@ export function createApp(options: AppOptions = {}): Express {
   app.use(express.json({ limit: "1mb" }));
   // Scripts: a bearer token stands for its owner (read only); then anonymous downloads are rate-limited.
   app.use("/api", apiTokenAuth);
-  app.use(DOWNLOAD_PATHS, optionalSession, anonymousDownloadLimit);
+  app.use(DOWNLOAD_PATHS, optionalSession, anonymousDownloadLimit(options.rateLimitScope));
 
   // GET /api/health
   app.get("/api/health", (async (_req, res) => {

@@ -1,5 +1,4 @@
 import { betterAuth } from "better-auth";
-import { MemoryStore } from "express-rate-limit";
 import { drizzleAdapter } from "better-auth/adapters/drizzle";
 import { APIError, createAuthMiddleware } from "better-auth/api";
 import { admin } from "better-auth/plugins";
@@ -7,6 +6,7 @@ import { db } from "./db/client";
 import * as schema from "./db/schema";
 import { env } from "./env";
 import { isCommonPassword } from "./lib/password-policy";
+import { PgRateLimitStore } from "./lib/pg-rate-limit-store";
 import { sendMail } from "./mail/send";
 
 const PASSWORD_PATHS = new Set(["/sign-up/email", "/reset-password", "/change-password"]);
@@ -14,8 +14,9 @@ const PASSWORD_PATHS = new Set(["/sign-up/email", "/reset-password", "/change-pa
 // Per-account limit on top of the per-IP one (server/middleware/rate-limit.ts): keyed by the e-mail address
 // submitted, whether or not an account has it, so the answer tells nothing about which addresses exist.
 const ACCOUNT_PATHS = new Set(["/sign-in/email", "/sign-up/email", "/request-password-reset", "/send-verification-email"]);
-const accountAttempts = new MemoryStore();
-accountAttempts.init({ windowMs: env.AUTH_RATE_WINDOW_S * 1000 } as Parameters<MemoryStore["init"]>[0]);
+// Counted in PostgreSQL, so the limit holds across app servers.
+const accountAttempts = new PgRateLimitStore("auth-account:");
+accountAttempts.init({ windowMs: env.AUTH_RATE_WINDOW_S * 1000 });
 
 export const auth = betterAuth({
   appName: "Tauline",

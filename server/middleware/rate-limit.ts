@@ -1,15 +1,17 @@
 import { rateLimit } from "express-rate-limit";
 import type { RequestHandler } from "express";
+import { PgRateLimitStore } from "../lib/pg-rate-limit-store";
 
 /**
  * Limits sign-in, sign-up, password-reset and token requests per client IP. Answers are the same for
- * known and unknown e-mail addresses. The store is in memory: with several app servers behind a
- * balancer, give each a share of the budget or move the store to PostgreSQL (README, "Scaling out").
+ * known and unknown e-mail addresses. Counts live in PostgreSQL, shared by every app server (README, "Scaling
+ * out"); `scope` prefixes the keys, so apps given different scopes count apart.
  */
-export function authRateLimit(limit: number, windowS: number): RequestHandler {
+export function authRateLimit(limit: number, windowS: number, scope = ""): RequestHandler {
   return rateLimit({
     windowMs: windowS * 1000,
     limit,
+    store: new PgRateLimitStore(`${scope}auth-ip:`),
     standardHeaders: "draft-8",
     legacyHeaders: false,
     handler: (req, res) => {

@@ -5,29 +5,33 @@ import { idSchema } from "@shared/schemas/common";
 import { downloadQuerySchema } from "@shared/schemas/downloads";
 import { apiRouter } from "../lib/routes";
 import { logger } from "../lib/logger";
+import { PgRateLimitStore } from "../lib/pg-rate-limit-store";
 import { contentDisposition, downloadFileName, formatMediaType, openReleaseFile, planDownload, verifyRelease, writeDownload } from "../services/downloads";
 import { idParamsSchema } from "@shared/schemas/common";
 
 /**
- * Anonymous downloads per IP and minute (DOWNLOAD_RATE_LIMIT, default 30). Signed-in people and API tokens
- * are not limited here: they are accountable, and scripts with tokens are the intended bulk route.
+ * Anonymous downloads per IP and minute (DOWNLOAD_RATE_LIMIT, default 30), counted in PostgreSQL across app
+ * servers (`scope` as in AppOptions.rateLimitScope). Signed-in people and API tokens are not limited here: they
+ * are accountable, and scripts with tokens are the intended bulk route.
  */
-export const anonymousDownloadLimit: RequestHandler = rateLimit({
-  windowMs: 60_000,
-  limit: () => Number(process.env.DOWNLOAD_RATE_LIMIT ?? 30),
-  standardHeaders: "draft-8",
-  legacyHeaders: false,
-  skip: (req) => !!req.user,
-  handler: (req, res) => {
-    res.status(429).json({
-      error: {
-        code: "rate_limited",
-        message: "Too many downloads from this address; wait a minute, or sign in or use an API token for bulk downloads",
-        requestId: String(req.id),
-      },
-    });
-  },
-});
+export const anonymousDownloadLimit = (scope = ""): RequestHandler =>
+  rateLimit({
+    windowMs: 60_000,
+    store: new PgRateLimitStore(`${scope}download-ip:`),
+    limit: () => Number(process.env.DOWNLOAD_RATE_LIMIT ?? 30),
+    standardHeaders: "draft-8",
+    legacyHeaders: false,
+    skip: (req) => !!req.user,
+    handler: (req, res) => {
+      res.status(429).json({
+        error: {
+          code: "rate_limited",
+          message: "Too many downloads from this address; wait a minute, or sign in or use an API token for bulk downloads",
+          requestId: String(req.id),
+        },
+      });
+    },
+  });
 
 /** Paths the anonymous limit covers (mounted before the routers, after the session or token is known). */
 export const DOWNLOAD_PATHS = ["/api/v1/versions/:id/download", "/api/v1/releases/:id/files/:name", "/api/v1/releases/:id/verify"];

@@ -3,11 +3,14 @@ import type { RequestHandler } from "express";
 import { idParamsSchema } from "@shared/schemas/common";
 import { createApiTokenInputSchema } from "@shared/schemas/tokens";
 import { apiRouter } from "../lib/routes";
+import { PgRateLimitStore } from "../lib/pg-rate-limit-store";
 import { createToken, listTokens, revokeToken } from "../services/tokens";
 
 /** Token creation per account and 10 minutes (SECURITY.md: token creation is rate-limited). */
 export const tokenCreateLimit: RequestHandler = rateLimit({
   windowMs: 10 * 60_000,
+  // In PostgreSQL, so the limit holds across app servers.
+  store: new PgRateLimitStore("token-create:"),
   limit: 20,
   standardHeaders: "draft-8",
   legacyHeaders: false,

@@ -87,7 +87,7 @@ describe("sign-in", () => {
   });
 
   test("is rate-limited per client: the attempt over the limit gets 429 with a readable message", async () => {
-    const app = createApp({ serveClient: false, authRateLimit: 3 });
+    const app = createApp({ serveClient: false, authRateLimit: 3, rateLimitScope: `t-${randomUUID()}:` });
     const email = newEmail();
     const statuses: number[] = [];
     for (let i = 0; i < 4; i++) {
@@ -96,6 +96,19 @@ describe("sign-in", () => {
       if (r.status === 429) expect(r.body.error).toMatchObject({ code: "rate_limited" });
     }
     expect(statuses).toEqual([401, 401, 401, 429]);
+  });
+
+  test("app servers share the per-client count: the limit holds across two of them, not once per server", async () => {
+    // Two apps as two servers behind a balancer (same database, same scope), each with a limit of 3 per window.
+    const scope = `t-${randomUUID()}:`;
+    const a = createApp({ serveClient: false, authRateLimit: 3, rateLimitScope: scope });
+    const b = createApp({ serveClient: false, authRateLimit: 3, rateLimitScope: scope });
+    const statuses: number[] = [];
+    for (const app of [a, b, a, b, a]) statuses.push((await request(app).post("/api/auth/sign-in/email").set("Origin", ORIGIN).send({ email: newEmail(), password: "whatever-password-1" })).status);
+    expect(statuses).toEqual([401, 401, 401, 429, 429]);
+    // A third app with a scope of its own still answers: the counts are per scope and client.
+    const c = createApp({ serveClient: false, authRateLimit: 3, rateLimitScope: `t-${randomUUID()}:` });
+    expect((await request(c).post("/api/auth/sign-in/email").set("Origin", ORIGIN).send({ email: newEmail(), password: "whatever-password-1" })).status).toBe(401);
   });
 
   test("is rate-limited per account too: the 11th attempt on one address in a minute gets 429, known or not", async () => {

@@ -6,3 +6,4 @@ export * from "./curation";
 export * from "./records";
 export * from "./annotations";
 export * from "./tokens";
+export * from "./limits";
