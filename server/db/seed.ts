@@ -7,8 +7,8 @@ import { account, datasets, deployments, memberships, platforms, projects, user 
 
 /**
  * The demo scenario, all invented: the Merrow Shelf Observing Programme runs three moorings on a
- * west-facing shelf (enough for the array diagnostics) and a fleet of surface drifters. People, names and places are made up;
- * only the ocean coordinates are real water.
+ * west-facing shelf (enough for the array diagnostics) and a fleet of surface drifters. People, names
+ * and places are made up; only the ocean coordinates are real water.
  */
 export const demoPassword = "tauline-demo-2026";
 export const demoUsers = [

@@ -13,7 +13,7 @@ export function Toaster() {
           key={t.id}
           role={t.tone === "error" ? "alert" : "status"}
           className={clsx(
-            "pointer-events-auto flex max-w-lg items-start lg:max-w-sm gap-3 rounded-md border bg-surface px-4 py-2.5 shadow-lg",
+            "pointer-events-auto flex max-w-lg items-start gap-3 rounded-md border bg-surface px-4 py-2.5 shadow-lg lg:max-w-sm",
             t.tone === "error" ? "border-signal" : "border-line",
           )}
         >
