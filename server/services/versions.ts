@@ -302,18 +302,20 @@ export async function getArrayDiagnostics(user: SessionUser, projectId: string):
       ekmanPumping: [],
       sverdrup: [],
       used: [],
-      note: "Not computed yet: array diagnostics run after a mooring version is built, once three or more moorings overlap in time.",
+      note: "Not computed yet: array diagnostics run after a version is built, once three or more moorings or drifters with wind stress overlap in time.",
       caution: CAUTION,
     };
   return {
     projectId,
     computedAt: iso(r.computed_at),
-    inputs: (r.inputs as { datasetId: string; versionNumber: number; title: string; latitude: number; longitude: number }[]).map((i) => ({
+    inputs: (r.inputs as ArrayDiagnostics["inputs"]).map((i) => ({
       datasetId: i.datasetId,
       versionNumber: i.versionNumber,
       title: i.title,
       latitude: i.latitude,
       longitude: i.longitude,
+      ...(i.kind ? { kind: i.kind } : {}),
+      ...(i.platform ? { platform: i.platform } : {}),
     })),
     stepS: r.step_s,
     time: (r.curl as unknown[]).map((_, j) => r.t0 + j * r.step_s),

@@ -128,7 +128,19 @@ export type VersionDetail = z.infer<typeof versionDetailSchema>;
 export const arrayDiagnosticsSchema = z.object({
   projectId: idSchema,
   computedAt: z.string().nullable(),
-  inputs: z.array(z.object({ datasetId: z.string(), versionNumber: z.number(), title: z.string(), latitude: z.number(), longitude: z.number() })),
+  /** The moorings and drifters that took part, at their mean position over the hours they did. */
+  inputs: z.array(
+    z.object({
+      datasetId: z.string(),
+      versionNumber: z.number(),
+      title: z.string(),
+      latitude: z.number(),
+      longitude: z.number(),
+      /** "drifter" with its id in the fleet, or a mooring (older results have neither). */
+      kind: z.enum(["mooring", "drifter"]).optional(),
+      platform: z.string().optional(),
+    }),
+  ),
   stepS: z.number(),
   /** Epoch seconds of each step, and the series (null where not computable). */
   time: z.array(z.number()),

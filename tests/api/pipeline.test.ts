@@ -5,6 +5,10 @@ import { stopSender } from "../../server/jobs/queue";
 import { as, makeProjectWithRoles } from "../helpers/api";
 import { countRows, makeMooringDataset, mooringMap, mooringText, startWorker, storeUpload, versionRows, waitForVersion, type WorkerHandle } from "../helpers/pipeline";
 import { flagSql, setFlagsSql } from "../../server/db/record-flags";
+import { randomUUID } from "node:crypto";
+import { datasets, deployments, platforms } from "../../server/db/schema";
+import { db } from "../../server/db/client";
+import { demoFleetColumnMap } from "@shared/demo/generate";
 
 /**
  * The processing pipeline end to end with a real worker process: builds, appends, the seam, determinism, cancel,
@@ -260,10 +264,79 @@ describe("GET /api/projects/:id/array-diagnostics", () => {
       if (after!.note?.includes("Left out")) break;
       await new Promise((r) => setTimeout(r, 250));
     }
-    expect(after!.note).toMatch(/^Left out, more than 500 km from the array's centre mooring: .+ \(\d[\d,]* km\)\.$/);
+    expect(after!.note).toMatch(/^Left out, more than 500 km from the array's centre: .+ \(\d[\d,]* km\)\.$/);
     expect(after!.inputs.map((i) => i.datasetId).sort()).toEqual(body!.inputs.map((i) => i.datasetId).sort());
     expect(after!.curl).toEqual(body!.curl);
     expect(after!.ekmanPumping).toEqual(body!.ekmanPumping);
+  });
+});
+
+describe("array diagnostics of a drifter cluster", () => {
+  test("three drifters measuring wind give the array at their hourly positions, like moorings would", async () => {
+    const { projectId } = await makeProjectWithRoles();
+    const { contributor } = roles.users;
+    await pool.query(`insert into memberships (project_id, user_id, role) values ($1, $2, 'contributor')`, [projectId, contributor.id]);
+    // An invented fleet: three drifters ~20 km apart, each drifting slowly north-east, under one uniform wind field.
+    const [plat] = await db.insert(platforms).values({ projectId, name: `Merrow fleet ${randomUUID().slice(0, 6)}`, kind: "drifter" }).returning();
+    const [dep] = await db.insert(deployments).values({ platformId: plat!.id, name: "Release A", startTime: new Date("2026-01-01T00:00:00Z") }).returning();
+    const [ds] = await db.insert(datasets).values({ projectId, deploymentId: dep!.id, title: "Fleet with anemometers" }).returning();
+    const starts = [
+      { id: "TW-01", lat: 41.2, lon: -27.6 },
+      { id: "TW-02", lat: 41.35, lon: -27.45 },
+      { id: "TW-03", lat: 41.15, lon: -27.3 },
+    ];
+    let text = "time,id,lat,lon,wspd,wdir\n";
+    for (let i = 0; i < 60; i++) {
+      const t = day + i * 600;
+      // The same wind at all three each time (a uniform field), varying in time so the flat-line test passes it.
+      const w = (9 + 0.5 * Math.sin(i / 3)).toFixed(2);
+      const dir = (250 + 5 * Math.cos(i / 4)).toFixed(1);
+      for (const d of starts) text += `${iso(t)},${d.id},${(d.lat + i * 1e-4).toFixed(5)},${(d.lon + i * 1e-4).toFixed(5)},${w},${dir}\n`;
+    }
+    const map = {
+      ...demoFleetColumnMap(),
+      columns: [
+        ...demoFleetColumnMap().columns,
+        { column: "wspd", variable: "wind_speed", unit: "m s-1" },
+        { column: "wdir", variable: "wind_from_direction", unit: "degree" },
+      ],
+    };
+    const uploadId = await storeUpload(ds!.id, contributor.id, text, "fleet-wind.csv");
+    const r = await as(contributor.cookie).post(`/api/datasets/${ds!.id}/versions`).send({ uploadId, columnMap: map, mode: "replace" });
+    expect(r.status, JSON.stringify(r.body)).toBe(201);
+    const built = await waitForVersion(r.body.id, ["ready", "failed"]);
+    expect(built.state, JSON.stringify(built)).toBe("ready");
+    let body: ArrayDiagnostics | undefined;
+    const until = Date.now() + 30_000;
+    while (Date.now() < until) {
+      body = (await as(contributor.cookie).get(`/api/projects/${projectId}/array-diagnostics`)).body;
+      if (body!.time.length === 10) break;
+      await new Promise((res) => setTimeout(res, 250));
+    }
+    expect(body!.time.length).toBe(10);
+    expect(body!.inputs.map((i) => [i.kind, i.platform]).sort()).toEqual(starts.map((d) => ["drifter", d.id]));
+    expect(body!.used.every((n) => n === 3)).toBe(true);
+    // Uniform stress: no curl, no Sverdrup transport; the pumping is the β term alone, w = β τx / (ρ f²) at the
+    // drifters' mean latitude that hour (Gill 1982 §9.4 and §12.2, formulas from memory; DOMAIN §9; ρ = 1025 kg m-3
+    // common practice).
+    const { rows } = await pool.query(
+      `select avg(surface_downward_eastward_stress) as x, avg(latitude) as lat from records
+        where dataset_id = $1 and time >= to_timestamp($2) and time < to_timestamp($2 + 3600)`,
+      [ds!.id, body!.time[0]],
+    );
+    const phi = (Number(rows[0].lat) * Math.PI) / 180;
+    const omega = 7.2921e-5;
+    const f = 2 * omega * Math.sin(phi);
+    const beta = (2 * omega * Math.cos(phi)) / 6.371e6;
+    const expected = (beta * Number(rows[0].x)) / (1025 * f * f);
+    expect(Math.abs(body!.curl[0]!)).toBeLessThan(1e-15);
+    expect(Math.abs(body!.sverdrup[0]!)).toBeLessThan(1e-6);
+    expect(Math.abs(expected)).toBeGreaterThan(1e-12);
+    expect(Math.abs(body!.ekmanPumping[0]! / expected - 1)).toBeLessThan(1e-3);
+    // Positions are each drifter's mean over the hours it took part, not a deployment's.
+    const tw1 = body!.inputs.find((i) => i.platform === "TW-01")!;
+    expect(tw1.latitude).toBeGreaterThan(41.2);
+    expect(tw1.latitude).toBeLessThan(41.2 + 60e-4);
   });
 });
 

@@ -28,7 +28,7 @@ export function ArrayDiagnosticsSection({ projectId }: { projectId: string }) {
   return (
     <Section
       title="Array diagnostics"
-      description="Wind-stress curl from a least-squares plane fit over the moorings, Ekman pumping (with the β term) and Sverdrup transport, at hourly steps where three or more moorings have a wind stress."
+      description="Wind-stress curl from a least-squares plane fit over the moorings (and drifters measuring wind), Ekman pumping (with the β term) and Sverdrup transport, at hourly steps where three or more of them within 500 km have a wind stress."
     >
       {q.isPending ? <Loading /> : q.error ? <Alert tone="attention">{getErrorMessage(q.error)}</Alert> : <Body d={q.data} />}
     </Section>
@@ -89,7 +89,15 @@ function Body({ d }: { d: ArrayDiagnostics }) {
   return (
     <div className="space-y-3">
       <p className="text-sm">
-        From {d.inputs.length} moorings: {d.inputs.map((i) => `${i.title} v${i.versionNumber} (${i.latitude.toFixed(3)}° N, ${i.longitude.toFixed(3)}° E)`).join("; ")}. Steps with a result:{" "}
+        From {d.inputs.length} {d.inputs.some((i) => i.kind === "drifter") ? "platforms" : "moorings"}:{" "}
+        {d.inputs
+          .map((i) =>
+            i.kind === "drifter"
+              ? `${i.title} v${i.versionNumber}, drifter ${i.platform} (mean ${i.latitude.toFixed(3)}° N, ${i.longitude.toFixed(3)}° E)`
+              : `${i.title} v${i.versionNumber} (${i.latitude.toFixed(3)}° N, ${i.longitude.toFixed(3)}° E)`,
+          )
+          .join("; ")}
+        . Steps with a result:{" "}
         <span className="num">{rows.length}</span>, from <UtcTime iso={iso(rows[0]!.t)} /> to <UtcTime iso={iso(rows[rows.length - 1]!.t)} />.
         {d.computedAt ? (
           <>
