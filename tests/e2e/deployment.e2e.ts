@@ -84,7 +84,7 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
 
   // Monthly climatology bounds (off by default): pasted from a spreadsheet as a row of minima above a row of
   // maxima, they fill all twelve months (invented bounds, K).
-  await page.getByRole("button", { name: "Air temperature: monthly climatology" }).click();
+  await page.getByRole("button", { name: /Air temperature monthly climatology$/ }).click();
   const minima = [271, 271, 272, 274, 277, 280, 283, 284, 282, 279, 275, 272];
   const maxima = minima.map((x) => x + 18);
   await page.getByLabel("Air temperature: climatology minimum in January").evaluate((el, text) => {
@@ -106,7 +106,7 @@ test("a contributor tightens a deployment's wind-speed thresholds, sees a bad va
   await page.reload();
   await openThresholds(page);
   await expect(page.getByRole("row", { name: /Air temperature/ }).first()).toContainText("all 12 months");
-  await page.getByRole("button", { name: "Air temperature: monthly climatology" }).click();
+  await page.getByRole("button", { name: /Air temperature monthly climatology$/ }).click();
   await expect(page.getByLabel("Air temperature: climatology minimum in June")).toHaveValue("280");
   await expect(page.getByLabel("Air temperature: climatology maximum in March")).toHaveValue("290");
 

@@ -13,7 +13,7 @@ export function AuthCard({ title, intro, children, footer }: { title: string; in
         {intro ? <div className="mt-1 text-muted">{intro}</div> : null}
         <div className="mt-6">{children}</div>
       </div>
-      {footer ? <div className="mt-4 text-center text-[0.95rem]">{footer}</div> : null}
+      {footer ? <p className="mt-4 text-center text-[0.95rem]">{footer}</p> : null}
     </div>
   );
 }

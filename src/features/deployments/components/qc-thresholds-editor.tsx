@@ -436,7 +436,8 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
                       variant="secondary"
                       size="sm"
                       aria-expanded={monthsOpen.includes(v)}
-                      aria-label={`${vocabulary[v].label}: monthly climatology`}
+                      // The visible word first, so speech control finds it (WCAG 2.5.3, label in name).
+                      aria-label={`${monthsOpen.includes(v) ? "Hide months" : "Months"}: ${vocabulary[v].label} monthly climatology`}
                       onClick={() => setMonthsOpen((o) => (o.includes(v) ? o.filter((x) => x !== v) : [...o, v]))}
                     >
                       {monthsOpen.includes(v) ? "Hide months" : "Months"}

@@ -37,7 +37,10 @@ export function Snippet({ title, code }: { title: string; code: string }) {
       <figcaption className="flex items-center justify-between gap-2 text-sm font-semibold">
         {title} <CopyButton text={code} what={`${title} example`} />
       </figcaption>
-      <pre className="overflow-x-auto rounded-md border border-line bg-surface p-3 font-mono text-sm">{code}</pre>
+      {/* Focusable, so the keyboard can scroll a long line sideways. */}
+      <pre tabIndex={0} className="overflow-x-auto rounded-md border border-line bg-surface p-3 font-mono text-sm">
+        {code}
+      </pre>
     </figure>
   );
 }

@@ -178,66 +178,69 @@ export function RecordsTable({
       ) : rows.length === 0 ? (
         <EmptyState title="No records match">Widen the time range, clear the flag filter or choose other variables, then press Show records.</EmptyState>
       ) : (
-        <div role="table" aria-label="Records" aria-rowcount={q.hasNextPage ? -1 : rows.length + 1} className="overflow-x-auto rounded-lg border border-line bg-surface">
-          <div role="rowgroup" className="min-w-max">
-            {table.getHeaderGroups().map((g) => (
-              <div role="row" key={g.id} className="grid bg-sunken" style={{ gridTemplateColumns: template }}>
-                {g.headers.map((hd, i) => {
-                  const key = i === 0 ? null : hd.id;
-                  const active = key === (filter.sort ?? null);
-                  const arrow = active ? (filter.order === "asc" ? "↑" : "↓") : "";
+        <div className="overflow-hidden rounded-lg border border-line bg-surface">
+          <div role="table" aria-label="Records" aria-rowcount={q.hasNextPage ? -1 : rows.length + 1} className="overflow-x-auto">
+            <div role="rowgroup" className="min-w-max">
+              {table.getHeaderGroups().map((g) => (
+                <div role="row" key={g.id} className="grid bg-sunken" style={{ gridTemplateColumns: template }}>
+                  {g.headers.map((hd, i) => {
+                    const key = i === 0 ? null : hd.id;
+                    const active = key === (filter.sort ?? null);
+                    const arrow = active ? (filter.order === "asc" ? "↑" : "↓") : "";
+                    return (
+                      <div
+                        role="columnheader"
+                        key={hd.id}
+                        aria-sort={active ? (filter.order === "asc" ? "ascending" : "descending") : undefined}
+                        className={clsx("border-b border-line px-3 py-2 text-xs font-semibold uppercase tracking-wide", i === 0 ? "text-left" : "text-right", active ? "text-fg" : "text-muted")}
+                      >
+                        <button
+                          type="button"
+                          className="uppercase hover:text-fg"
+                          onClick={() => sortBy(key)}
+                          title={
+                            key === null
+                              ? filter.sort
+                                ? "Sort by time"
+                                : "Turn the time order round"
+                              : !active
+                                ? "Sort by this variable, largest first"
+                                : filter.order === "desc"
+                                  ? "Smallest first"
+                                  : "Back to time order"
+                          }
+                        >
+                          <table.FlexRender header={hd} /> {arrow}
+                        </button>
+                      </div>
+                    );
+                  })}
+                </div>
+              ))}
+            </div>
+            {/* Focusable, so the keyboard can scroll the records. */}
+            <div ref={scroller} role="rowgroup" tabIndex={0} className="max-h-[32rem] min-w-max overflow-y-auto" data-testid="records-scroller">
+              <div style={{ height: virtual.getTotalSize(), position: "relative" }}>
+                {items.map((vi) => {
+                  const r = modelRows[vi.index]!;
                   return (
                     <div
-                      role="columnheader"
-                      key={hd.id}
-                      aria-sort={active ? (filter.order === "asc" ? "ascending" : "descending") : undefined}
-                      className={clsx("border-b border-line px-3 py-2 text-xs font-semibold uppercase tracking-wide", i === 0 ? "text-left" : "text-right", active ? "text-fg" : "text-muted")}
+                      role="row"
+                      key={r.id}
+                      aria-rowindex={vi.index + 2}
+                      className="absolute left-0 grid w-full border-b border-line/60 hover:bg-sunken/60"
+                      style={{ gridTemplateColumns: template, height: ROW_PX, transform: `translateY(${vi.start}px)` }}
+                      data-testid="record-row"
                     >
-                      <button
-                        type="button"
-                        className="uppercase hover:text-fg"
-                        onClick={() => sortBy(key)}
-                        title={
-                          key === null
-                            ? filter.sort
-                              ? "Sort by time"
-                              : "Turn the time order round"
-                            : !active
-                              ? "Sort by this variable, largest first"
-                              : filter.order === "desc"
-                                ? "Smallest first"
-                                : "Back to time order"
-                        }
-                      >
-                        <table.FlexRender header={hd} /> {arrow}
-                      </button>
+                      {r.getAllCells().map((c, i) => (
+                        <div role="cell" key={c.id} className={i === 0 ? "num whitespace-nowrap px-3 py-1.5" : "num whitespace-nowrap px-3 py-1 text-right"}>
+                          <table.FlexRender cell={c} />
+                        </div>
+                      ))}
                     </div>
                   );
                 })}
               </div>
-            ))}
-          </div>
-          <div ref={scroller} role="rowgroup" className="max-h-[32rem] min-w-max overflow-y-auto" data-testid="records-scroller">
-            <div style={{ height: virtual.getTotalSize(), position: "relative" }}>
-              {items.map((vi) => {
-                const r = modelRows[vi.index]!;
-                return (
-                  <div
-                    role="row"
-                    key={r.id}
-                    aria-rowindex={vi.index + 2}
-                    className="absolute left-0 grid w-full border-b border-line/60 hover:bg-sunken/60"
-                    style={{ gridTemplateColumns: template, height: ROW_PX, transform: `translateY(${vi.start}px)` }}
-                    data-testid="record-row"
-                  >
-                    {r.getAllCells().map((c, i) => (
-                      <div role="cell" key={c.id} className={i === 0 ? "num whitespace-nowrap px-3 py-1.5" : "num whitespace-nowrap px-3 py-1 text-right"}>
-                        <table.FlexRender cell={c} />
-                      </div>
-                    ))}
-                  </div>
-                );
-              })}
             </div>
           </div>
           <p className="border-t border-line px-3 py-1.5 text-xs text-muted" role="status">

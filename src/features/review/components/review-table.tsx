@@ -26,7 +26,7 @@ export function ReviewTable({ items }: { items: ReviewQueueItem[] }) {
             </Td>
             <Td>{r.projectName}</Td>
             <Td numeric>
-              <Link to={paths.reviewVersion(r.versionId)} aria-label={`Review version ${r.number} of ${r.datasetTitle}`}>
+              <Link to={paths.reviewVersion(r.versionId)} aria-label={`v${r.number}: review version ${r.number} of ${r.datasetTitle}`}>
                 v{r.number}
               </Link>
             </Td>
