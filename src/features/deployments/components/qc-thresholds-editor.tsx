@@ -371,8 +371,9 @@ function Editor({ data, deploymentName, canEdit, onClose }: { data: DeploymentQc
       <p className="max-w-4xl text-sm text-muted">
         Values are in each variable’s canonical unit (temperatures in kelvin, pressures in pascal, humidity as a fraction; rate-of-change windows,
         flat-line durations and attenuated-signal windows in hours). The attenuated-signal test flags a sensor whose readings stop moving — the range
-        over the window falls below a floor, as with a fouled or iced sensor — and is off until you give it a window and floors. A blank pair switches
-        that test off; only what differs from Tauline’s defaults is stored. Versions already built keep
+        over the window falls below a floor, as with a fouled or iced sensor — and is off until you give it a window and floors. The monthly
+        climatology (under Months) is off until you give bounds for all twelve months. A blank pair switches that test off; only what differs from
+        Tauline’s defaults is stored. Versions already built keep
         the settings they used; the next build of a dataset on this deployment uses these. The starting values are common practice for moored sensors:
         tune them to the site and its instruments.
       </p>
