@@ -8,6 +8,7 @@ import { Loading } from "@/components/ui/loading";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
 import { getErrorMessage } from "@/lib/api-client";
 import { testWord } from "@/lib/qc-tests";
+import { aroundStretch } from "@/lib/stretch-window";
 import { formatUtc } from "@/lib/format";
 import { useQcReport } from "../api/get-qc-report";
 
@@ -40,13 +41,15 @@ function Swatch({ flag }: { flag: number }) {
   );
 }
 
+/** The variable (and a fleet's platform) whose plot to bring into view. */
+type PlotFocus = { variable: string; platform?: string };
+/** Opens the plots on a window, with `focus` in view. */
+export type JumpTo = (from: string, to: string, focus?: PlotFocus) => void;
+
 /**
  * The QC report of a version: counts per test × variable from the QC run, flag totals per variable, a timeline
  * of the worst flag per hour (or coarser) and the worst stretches, each with a jump into the plots.
  */
-/** Opens the plots on a window; `focus` names the variable (and a fleet's platform) to bring into view. */
-export type JumpTo = (from: string, to: string, focus?: { variable: string; platform?: string }) => void;
-
 export function QcReportView({ versionId, onJump }: { versionId: string; onJump: JumpTo }) {
   const q = useQcReport(versionId);
   if (q.isPending) return <Loading label="Loading the QC report…" />;
@@ -170,11 +173,9 @@ export function QcReportView({ versionId, onJump }: { versionId: string; onJump:
 }
 
 /** Opens the plots on a stretch with some context on both sides, the variable's plot in view. */
-function jumpAround(from: string, to: string, onJump: JumpTo, focus?: { variable: string; platform?: string }) {
-  const a = Date.parse(from);
-  const b = Date.parse(to);
-  const pad = Math.max((b - a) * 0.5, 30 * 60_000);
-  onJump(new Date(a - pad).toISOString(), new Date(b + pad).toISOString(), focus);
+function jumpAround(from: string, to: string, onJump: JumpTo, focus?: PlotFocus) {
+  const w = aroundStretch(from, to);
+  onJump(w.from, w.to, focus);
 }
 
 function Timeline({ report, labels, onJump }: { report: QcReport; labels: Record<string, { label: string }>; onJump: JumpTo }) {

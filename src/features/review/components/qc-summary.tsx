@@ -5,6 +5,7 @@ import { Link } from "react-router-dom";
 import { paths } from "@/config/paths";
 import { formatUtc } from "@/lib/format";
 import { testWord } from "@/lib/qc-tests";
+import { aroundStretch } from "@/lib/stretch-window";
 import { FlagBadge, type QcFlag } from "@/components/ui/flag-badge";
 import { FlagCountsTable } from "@/components/ui/flag-counts-table";
 import { Table, Td, Th, Tr } from "@/components/ui/table";
@@ -18,7 +19,6 @@ export function variableLabel(key: string): string {
   );
 }
 
-
 const int = (n: number) => Math.round(n).toLocaleString("en-GB").replace(/,/g, "\u202f");
 
 export function parseSummary(summary: unknown): VersionSummaryData | null {
@@ -28,18 +28,9 @@ export function parseSummary(summary: unknown): VersionSummaryData | null {
 
 /** Flag counts per variable for the whole version, which tests raised suspect or fail, and the worst stretches. */
 export function QcSummary({ review }: { review: VersionReview }) {
-  /** The plots of a stretch with as much again either side (at least an hour), so the flags are seen in context. */
-  const plotsOf = (s: VersionReview["stretches"][number]) => {
-    const a = Date.parse(s.from);
-    const b = Date.parse(s.to);
-    const pad = Math.max(3_600_000, b - a);
-    return paths.versionExplore(review.version.id, {
-      from: new Date(a - pad).toISOString(),
-      to: new Date(b + pad).toISOString(),
-      variable: s.variable,
-      platform: s.platform || undefined,
-    });
-  };
+  /** The plots around a stretch, its variable's plot in view. */
+  const plotsOf = (s: VersionReview["stretches"][number]) =>
+    paths.versionExplore(review.version.id, { ...aroundStretch(s.from, s.to), variable: s.variable, platform: s.platform || undefined });
   const summary = parseSummary(review.version.summary);
   const report = qcRunReportSchema.safeParse(review.qc);
   if (!summary) {
