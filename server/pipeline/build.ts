@@ -14,6 +14,7 @@ import { pool } from "../db/client";
 import { FLAG_ORDER, flagSql } from "../db/record-flags";
 import { pathForKey } from "../lib/file-store";
 import { applyManualFlags } from "../services/annotations";
+import { attachRecordPartition, createRecordPartition } from "../db/record-partitions";
 import { copyHeader, copyTrailer, createRecordEncoder } from "./copy-encoder";
 import { writePlotSeries } from "./plot-series";
 import { InputError, openCanonicalStream } from "./read-csv";
@@ -330,7 +331,11 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
     const before = contextCount ? snapshot(engine.summary()) : null;
     const tails = new Set(tailIndex.values());
 
-    const copy = client.query(copyFrom(`copy records (${encoder.columnList}) from stdin with (format binary)`));
+    // This version's rows go into a partition of their own, created here and attached once written
+    // (drizzle/0016_records_partition_per_build.sql). FREEZE: the table is this transaction's, and no reader can ask
+    // for version N's rows before this transaction marks it ready, so writing them already frozen is safe.
+    const part = await createRecordPartition(client, L.datasetId, L.number);
+    const copy = client.query(copyFrom(`copy ${part} (${encoder.columnList}) from stdin with (format binary, freeze)`));
     const copyDone = new Promise<void>((resolve, reject) => {
       copy.on("finish", resolve);
       copy.on("error", reject);
@@ -430,6 +435,7 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
     timings.compute_encode_s = computeMs / 1000;
     timings.wait_copy_s = waitCopyMs / 1000;
     if (cancelled) throw new BuildCancelled();
+    await attachRecordPartition(client, L.datasetId, L.number);
 
     const rowsWritten = rowsDone - tails.size;
     if (rowsWritten === 0) {

@@ -250,7 +250,8 @@ describe("GET /api/versions/:id/compare", () => {
     const v1 = await makeVersion({ datasetId, state: "approved", createdBy: ctx.users.contributor.id, summary });
     const v2 = await makeVersion({ datasetId, state: "in_review", createdBy: ctx.users.contributor.id, summary });
     const t = (h: number) => `2026-03-01T0${h}:00:00Z`;
-    // Version 1: five hourly rows, all passed.
+    // Version 1: five hourly rows, all passed (each version's rows in its partition, as a build makes it).
+    await db.execute(sql`select records_partition(${datasetId}, 1), records_partition(${datasetId}, 2)`);
     for (const [h, ws] of [[0, 5], [1, 6], [2, 7], [3, 8], [4, 9]] as const) {
       await db.execute(sql`insert into records (dataset_id, time, valid_from, wind_speed, flags) values (${datasetId}, ${t(h)}, 1, ${ws}, ${packFlags({ wind_speed: 1 })})`);
     }

@@ -40,6 +40,15 @@ async function build(datasetId: string, text: string, mode: "replace" | "append"
   return { id: res.body.id as string, number: res.body.number as number, state: v.state, detail };
 }
 
+/** Tables holding a dataset's records (one partition per version that wrote rows), by version, with their row counts. */
+async function partitions(datasetId: string): Promise<Record<string, number>> {
+  const prefix = `records_${datasetId.replace(/-/g, "")}_`;
+  const tables = await pool.query<{ t: string }>(`select relname as t from pg_class where relkind = 'r' and starts_with(relname, $1)`, [prefix]);
+  const counts = await pool.query<{ t: string; n: number }>(`select tableoid::regclass::text as t, count(*)::int as n from records where dataset_id = $1 group by 1`, [datasetId]);
+  const n = new Map(counts.rows.map((r) => [r.t, r.n]));
+  return Object.fromEntries(tables.rows.map((r) => [`v${r.t.slice(prefix.length)}`, n.get(r.t) ?? 0]));
+}
+
 /** A gentle wind series at `dt` s with an optional spike (m s-1 added) at given times; other columns steady. */
 function windText(start: number, n: number, dt: number, spikes: Record<number, number> = {}) {
   let s = "time,wspd,wdir,gust,airt,baro,rh,sst,cur_e,cur_n\n";
@@ -125,8 +134,10 @@ describe("POST /api/datasets/:id/versions", () => {
     expect(Number(at(after, start2 + 60).wind_speed)).toBeCloseTo(Number(at(before, start2 + 60).wind_speed) + 1, 2);
     // Version 1 still sees exactly what it saw.
     expect(await versionRows(datasetId, 1, ALL)).toEqual(before);
-    // Storage grows with the change: 2000 + 1000 new + the re-evaluated seam record.
+    // Storage grows with the change: 2000 + 1000 new + the re-evaluated seam record, each version's own rows in the
+    // partition its build made.
     expect(await countRows(datasetId)).toBe(3001);
+    expect(await partitions(datasetId)).toEqual({ v1: 2000, v2: 1001 });
   });
 
   test("the seam: a spike on the last record of one month is caught when the next month is appended", async () => {
@@ -169,6 +180,7 @@ describe("POST /api/datasets/:id/versions", () => {
     expect(v2.state).toBe("failed");
     expect(v2.detail.progress!.error).toMatchObject({ line: 2, column: "time" });
     expect(await countRows(d2)).toBe(0);
+    expect(await partitions(d2)).toEqual({});
   });
 
   test("cancel stops a running build, keeps nothing, and retry builds it", async () => {
@@ -193,12 +205,14 @@ describe("POST /api/datasets/:id/versions", () => {
     const p = versionProgressSchema.parse((await as(contributor.cookie).get(`/api/versions/${id}/progress`)).body);
     expect(p).toMatchObject({ versionState: "failed", runState: "cancelled" });
     expect(await countRows(datasetId)).toBe(0);
+    expect(await partitions(datasetId)).toEqual({});
     expect((await as(contributor.cookie).post(`/api/versions/${id}/cancel`).send({})).status).toBe(409);
     const r = await as(contributor.cookie).post(`/api/versions/${id}/retry`).send({});
     expect(r.status).toBe(200);
     expect(r.body.versionState).toBe("processing");
     expect((await waitForVersion(id, ["ready", "failed"], 120_000)).state).toBe("ready");
     expect(await countRows(datasetId)).toBe(durationS);
+    expect(await partitions(datasetId)).toEqual({ v1: durationS });
   }, 240_000);
 });
 
@@ -358,7 +372,9 @@ describe("records of released versions (database trigger, raw SQL)", () => {
     // Closing a row at version 2 does not change what version 1 sees: allowed (that is how version 2 replaces it).
     const ok = await pool.query(`update records set valid_to = 2 where dataset_id = $1 and time = ${ts}`, [datasetId]);
     expect(ok.rowCount).toBe(1);
-    // Reopening it would change nothing for version 1 either; moving it into version 1's past would.
+    // Reopening it would change nothing for version 1 either; moving it into version 1's past would (the row would
+    // move to version 2's partition, there as a build of version 2 would have made it).
+    await pool.query(`select records_partition($1, 2)`, [datasetId]);
     await expect(pool.query(`update records set valid_from = 2, valid_to = null where dataset_id = $1 and time = ${ts}`, [datasetId])).rejects.toThrow(/released version 1/);
     await expect(pool.query(`delete from datasets where id = $1`, [datasetId])).rejects.toThrow();
     expect(await countRows(datasetId)).toBe(100);

@@ -43,6 +43,7 @@ test.beforeAll(async () => {
       }
     }
     rows = tuples.length;
+    await c.query(`select records_partition($1, 1)`, [dataset]); // a build would make version 1's partition
     await c.query(`insert into records (dataset_id, platform, time, valid_from, wind_speed, air_temperature, flags) values ${tuples.join(", ")}`, values);
     const summary = {
       rows,

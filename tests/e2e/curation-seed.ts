@@ -84,6 +84,8 @@ function hourlyWorst(rows: Row[], v: number) {
 
 async function insertRecords(c: pg.Client, datasetId: string, rows: Row[], validFrom: number) {
   const cols = [...VARS.map(([v]) => v), "flags"];
+  // records is partitioned per version (drizzle/0016_records_partition_per_build.sql); a build makes its own.
+  await c.query(`select records_partition($1, $2)`, [datasetId, validFrom]);
   for (let s = 0; s < rows.length; s += 200) {
     const part = rows.slice(s, s + 200);
     const params: unknown[] = [];

@@ -46,6 +46,8 @@ export function fixtureRows(n: number, platforms: string[] = [""], start = Date.
 /** Inserts rows for a version number (valid_from = number) in batches. */
 export async function insertRecords(datasetId: string, versionNumber: number, rows: FixtureRow[]) {
   const cols = ["dataset_id", "platform", "time", "valid_from", ...fixtureVariables, "flags"];
+  // records is partitioned per version (drizzle/0016_records_partition_per_build.sql); a build makes its own.
+  await pool.query(`select records_partition($1, $2)`, [datasetId, versionNumber]);
   for (let i = 0; i < rows.length; i += 500) {
     const batch = rows.slice(i, i + 500);
     const values: unknown[] = [];

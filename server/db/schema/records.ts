@@ -16,6 +16,10 @@
  *   `record_flag(flags, i)` and readers name it `<key>_qc` in what they return.
  * Rows of released (also superseded or retracted) versions can never change: a trigger refuses any UPDATE or DELETE
  * that would alter what such a version sees (drizzle/*_records_released_guard.sql).
+ * - Partitioned by range on (dataset_id, valid_from), one partition per version that wrote rows, named
+ *   `records_<dataset hex>_<N>` (drizzle/0016_records_partition_per_build.sql, which Drizzle's schema cannot express):
+ *   a build creates its partition, COPYs into it and attaches it in its transaction (server/db/record-partitions.ts).
+ *   Read and update through `records`; a dataset's queries prune to that dataset's partitions.
  */
 import { sql } from "drizzle-orm";
 import {
