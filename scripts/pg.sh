@@ -5,7 +5,8 @@
 #   scripts/pg.sh start DIR PORT DBNAME   → prints nothing on success; idempotent
 #   scripts/pg.sh stop DIR
 # wal_level=minimal: a build writes its records into a partition created in its own transaction, which PostgreSQL
-# then syncs at commit instead of logging (no streaming replicas on this private cluster; see README, "Scaling out").
+# then syncs at commit instead of logging (no streaming replicas on this private cluster; see README, "Scaling out");
+# backend_flush_after has the kernel write that partition out during the COPY, so the sync at commit is short.
 set -euo pipefail
 cmd=${1:?start|stop}; dir=$(realpath -m "${2:?folder}")
 
@@ -40,7 +41,7 @@ case "$cmd" in
     fi
     if ! as_pg "$PGBIN/pg_ctl" status -D "$data" >/dev/null 2>&1; then
       as_pg "$PGBIN/pg_ctl" start -D "$data" -w -t 60 -l "$dir/server.log" \
-        -o "-k '' -p $port -c listen_addresses=127.0.0.1 -c fsync=${PG_FSYNC:-on} -c max_connections=200 -c wal_level=minimal -c max_wal_senders=0" >/dev/null || {
+        -o "-k '' -p $port -c listen_addresses=127.0.0.1 -c fsync=${PG_FSYNC:-on} -c max_connections=200 -c wal_level=minimal -c max_wal_senders=0 -c backend_flush_after=2MB" >/dev/null || {
         echo "PostgreSQL in $dir did not start on 127.0.0.1:$port; the end of its log:" >&2
         tail -n 4 "$dir/server.log" >&2
         exit 1
