@@ -15,7 +15,9 @@ CREATE FUNCTION records_partition_name(d uuid, n integer) RETURNS text LANGUAGE 
   SELECT 'records_' || replace(d::text, '-', '') || '_' || n
 $$;--> statement-breakpoint
 -- Creates (not attaches) the partition of version N of dataset D. Its check constraint states the partition's bound,
--- so attaching it needs no scan of its rows.
+-- so attaching it needs no scan of its rows. Statement triggers on `records` fire for statements that name
+-- `records`; the partition carries the same guards (drizzle/0006_records_released_guard.sql) for statements that
+-- name it, so no UPDATE, DELETE or TRUNCATE reaches a released version's rows by either name.
 CREATE FUNCTION records_partition_create(d uuid, n integer) RETURNS text LANGUAGE plpgsql AS $$
 DECLARE
   t text := records_partition_name(d, n);
@@ -23,6 +25,11 @@ BEGIN
   EXECUTE format('CREATE TABLE %I (LIKE records INCLUDING DEFAULTS INCLUDING CONSTRAINTS)', t);
   EXECUTE format('ALTER TABLE %I ADD CONSTRAINT %I CHECK (dataset_id = %L::uuid AND valid_from = %s)', t, t || '_bound', d, n);
   EXECUTE format('ALTER TABLE %I ADD CONSTRAINT %I PRIMARY KEY (dataset_id, platform, "time", valid_from)', t, t || '_pkey');
+  EXECUTE format('CREATE TRIGGER records_frozen_update_guard AFTER UPDATE ON %I REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows
+    FOR EACH STATEMENT EXECUTE FUNCTION records_frozen_update_guard()', t);
+  EXECUTE format('CREATE TRIGGER records_frozen_delete_guard AFTER DELETE ON %I REFERENCING OLD TABLE AS old_rows
+    FOR EACH STATEMENT EXECUTE FUNCTION records_frozen_delete_guard()', t);
+  EXECUTE format('CREATE TRIGGER records_no_truncate BEFORE TRUNCATE ON %I FOR EACH STATEMENT EXECUTE FUNCTION records_no_truncate()', t);
   RETURN t;
 END;
 $$;--> statement-breakpoint

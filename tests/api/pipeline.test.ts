@@ -369,6 +369,12 @@ describe("records of released versions (database trigger, raw SQL)", () => {
     await expect(pool.query(`delete from records where dataset_id = $1`, [datasetId])).rejects.toThrow(/released version 1/);
     await expect(pool.query(`update records set valid_to = 1 where dataset_id = $1`, [datasetId])).rejects.toThrow();
     await expect(pool.query(`truncate records`)).rejects.toThrow(/truncated/);
+    // The same by the name of the version's own partition (SECURITY.md: no UPDATE/DELETE reaches released rows).
+    const part = `records_${datasetId.replace(/-/g, "")}_1`;
+    await expect(pool.query(`update ${part} set wind_speed = 99 where time = ${ts}`)).rejects.toThrow(/released version 1/);
+    await expect(pool.query(`delete from ${part}`)).rejects.toThrow(/released version 1/);
+    await expect(pool.query(`truncate ${part}`)).rejects.toThrow(/truncated/);
+    await expect(pool.query(`update ${part} set valid_to = 1`)).rejects.toThrow();
     // Closing a row at version 2 does not change what version 1 sees: allowed (that is how version 2 replaces it).
     const ok = await pool.query(`update records set valid_to = 2 where dataset_id = $1 and time = ${ts}`, [datasetId]);
     expect(ok.rowCount).toBe(1);
