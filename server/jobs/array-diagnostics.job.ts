@@ -24,6 +24,17 @@ export const ARRAY_STEP_S = 3600;
  */
 export const ARRAY_MAX_RADIUS_KM = 500;
 
+const DEG = Math.PI / 180;
+
+/**
+ * SQL for the mean of `longitude` over a group as a direction (the mean of unit vectors, common practice for
+ * angles), in (−180°, 180°]: a drifter crossing the date line within an hour stays by the date line, where a plain
+ * average of 179.99° and −179.99° would put it at 0°. `filter` is the aggregate's FILTER clause, or "".
+ */
+function meanLongitudeSql(filter: string): string {
+  return `degrees(atan2(avg(sin(radians(longitude))) ${filter}, avg(cos(radians(longitude))) ${filter}))`;
+}
+
 export function enqueueArrayDiagnostics(projectId: string) {
   return enqueue(ARRAY_DIAGNOSTICS, { projectId }, { retryLimit: 3, retryDelay: 5 });
 }
@@ -102,7 +113,7 @@ export async function computeArrayDiagnostics(projectId: string): Promise<{ step
       `select platform, floor(extract(epoch from time) / $3)::float8 * $3 as t,
               avg(surface_downward_eastward_stress) filter (where ${good("surface_downward_eastward_stress")}) as x,
               avg(surface_downward_northward_stress) filter (where ${good("surface_downward_northward_stress")}) as y
-              ${drifter ? `, avg(latitude) filter (where ${good("latitude")}) as lat, avg(longitude) filter (where ${good("longitude")}) as lon` : ""}
+              ${drifter ? `, avg(latitude) filter (where ${good("latitude")}) as lat, ${meanLongitudeSql(`filter (where ${good("longitude")})`)} as lon` : ""}
          from records
         where dataset_id = $1 and valid_from <= $2 and (valid_to is null or valid_to > $2) ${drifter ? "" : "and platform = ''"}
         group by 1, 2`,
@@ -131,7 +142,7 @@ export async function computeArrayDiagnostics(projectId: string): Promise<{ step
 
   // Each hour: the array (members near a centre), then the plane fit where three or more remain.
   const leftOut = new Map<number, number>(); // member → furthest it was from an hour's centre, km
-  const usedAt = new Map<number, { lat: number; lon: number; n: number }>();
+  const usedAt = new Map<number, { lat: number; east: number; north: number; n: number }>();
   const fits: { t: number; used: number; res: ReturnType<typeof arrayDiagnostics> }[] = [];
   for (const t of [...byStep.keys()].sort((a, b) => a - b)) {
     const at = [...byStep.get(t)!.entries()].map(([k, o]) => ({ k, ...o }));
@@ -142,8 +153,9 @@ export async function computeArrayDiagnostics(projectId: string): Promise<{ step
     const res = arrayDiagnostics({ lat: inputs.map((i) => i.latitude), lon: inputs.map((i) => i.longitude), taux: inputs.map((i) => i.x), tauy: inputs.map((i) => i.y) });
     fits.push({ t, used: res.used, res });
     for (const i of inputs) {
-      const u = usedAt.get(i.k) ?? { lat: 0, lon: 0, n: 0 };
-      usedAt.set(i.k, { lat: u.lat + i.latitude, lon: u.lon + i.longitude, n: u.n + 1 });
+      const u = usedAt.get(i.k) ?? { lat: 0, east: 0, north: 0, n: 0 };
+      const lam = i.longitude * DEG;
+      usedAt.set(i.k, { lat: u.lat + i.latitude, east: u.east + Math.sin(lam), north: u.north + Math.cos(lam), n: u.n + 1 });
     }
   }
   const name = (k: number) => (members[k]!.platform ? `${members[k]!.title}, drifter ${members[k]!.platform}` : members[k]!.title);
@@ -177,7 +189,7 @@ export async function computeArrayDiagnostics(projectId: string): Promise<{ step
     }
   }
   // The members that took part, at their mean position over the hours they did.
-  const inputs = [...usedAt.entries()].map(([k, u]) => ({ ...members[k]!, latitude: u.lat / u.n, longitude: u.lon / u.n }));
+  const inputs = [...usedAt.entries()].map(([k, u]) => ({ ...members[k]!, latitude: u.lat / u.n, longitude: Math.atan2(u.east, u.north) / DEG }));
   await pool.query(
     `insert into array_diagnostic_series (project_id, computed_at, inputs, step_s, t0, curl, ekman_pumping, sverdrup, used, note)
      values ($1, now(), $2, $3, $4, $5, $6, $7, $8, $9)

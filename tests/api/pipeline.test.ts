@@ -286,26 +286,27 @@ describe("GET /api/projects/:id/array-diagnostics", () => {
 });
 
 describe("array diagnostics of a drifter cluster", () => {
-  test("three drifters measuring wind give the array at their hourly positions, like moorings would", async () => {
+  /** Wraps a longitude into [-180, 180), as a fleet's files write them. */
+  const wrapLon = (lon: number) => ((((lon + 180) % 360) + 360) % 360) - 180;
+
+  /**
+   * An invented fleet of three drifters, each drifting slowly north-east, under one uniform wind field: builds it
+   * in a project of its own and returns the project's array diagnostics once its job has run.
+   */
+  async function fleetArray(starts: { id: string; lat: number; lon: number }[]) {
     const { projectId } = await makeProjectWithRoles();
     const { contributor } = roles.users;
     await pool.query(`insert into memberships (project_id, user_id, role) values ($1, $2, 'contributor')`, [projectId, contributor.id]);
-    // An invented fleet: three drifters ~20 km apart, each drifting slowly north-east, under one uniform wind field.
     const [plat] = await db.insert(platforms).values({ projectId, name: `Merrow fleet ${randomUUID().slice(0, 6)}`, kind: "drifter" }).returning();
     const [dep] = await db.insert(deployments).values({ platformId: plat!.id, name: "Release A", startTime: new Date("2026-01-01T00:00:00Z") }).returning();
     const [ds] = await db.insert(datasets).values({ projectId, deploymentId: dep!.id, title: "Fleet with anemometers" }).returning();
-    const starts = [
-      { id: "TW-01", lat: 41.2, lon: -27.6 },
-      { id: "TW-02", lat: 41.35, lon: -27.45 },
-      { id: "TW-03", lat: 41.15, lon: -27.3 },
-    ];
     let text = "time,id,lat,lon,wspd,wdir\n";
     for (let i = 0; i < 60; i++) {
       const t = day + i * 600;
       // The same wind at all three each time (a uniform field), varying in time so the flat-line test passes it.
       const w = (9 + 0.5 * Math.sin(i / 3)).toFixed(2);
       const dir = (250 + 5 * Math.cos(i / 4)).toFixed(1);
-      for (const d of starts) text += `${iso(t)},${d.id},${(d.lat + i * 1e-4).toFixed(5)},${(d.lon + i * 1e-4).toFixed(5)},${w},${dir}\n`;
+      for (const d of starts) text += `${iso(t)},${d.id},${(d.lat + i * 1e-4).toFixed(5)},${wrapLon(d.lon + i * 1e-4).toFixed(5)},${w},${dir}\n`;
     }
     const map = {
       ...demoFleetColumnMap(),
@@ -327,30 +328,65 @@ describe("array diagnostics of a drifter cluster", () => {
       if (body!.time.length === 10) break;
       await new Promise((res) => setTimeout(res, 250));
     }
-    expect(body!.time.length).toBe(10);
-    expect(body!.inputs.map((i) => [i.kind, i.platform]).sort()).toEqual(starts.map((d) => ["drifter", d.id]));
-    expect(body!.used.every((n) => n === 3)).toBe(true);
+    return { datasetId: ds!.id, body: body! };
+  }
+
+  test("three drifters measuring wind give the array at their hourly positions, like moorings would", async () => {
+    // ~20 km apart.
+    const starts = [
+      { id: "TW-01", lat: 41.2, lon: -27.6 },
+      { id: "TW-02", lat: 41.35, lon: -27.45 },
+      { id: "TW-03", lat: 41.15, lon: -27.3 },
+    ];
+    const { datasetId, body } = await fleetArray(starts);
+    expect(body.time.length).toBe(10);
+    expect(body.inputs.map((i) => [i.kind, i.platform]).sort()).toEqual(starts.map((d) => ["drifter", d.id]));
+    expect(body.used.every((n) => n === 3)).toBe(true);
     // Uniform stress: no curl, no Sverdrup transport; the pumping is the β term alone, w = β τx / (ρ f²) at the
     // drifters' mean latitude that hour (Gill 1982 §9.4 and §12.2, formulas from memory; DOMAIN §9; ρ = 1025 kg m-3
     // common practice).
     const { rows } = await pool.query(
       `select avg(surface_downward_eastward_stress) as x, avg(latitude) as lat from records
         where dataset_id = $1 and time >= to_timestamp($2) and time < to_timestamp($2 + 3600)`,
-      [ds!.id, body!.time[0]],
+      [datasetId, body.time[0]],
     );
     const phi = (Number(rows[0].lat) * Math.PI) / 180;
     const omega = 7.2921e-5;
     const f = 2 * omega * Math.sin(phi);
     const beta = (2 * omega * Math.cos(phi)) / 6.371e6;
     const expected = (beta * Number(rows[0].x)) / (1025 * f * f);
-    expect(Math.abs(body!.curl[0]!)).toBeLessThan(1e-15);
-    expect(Math.abs(body!.sverdrup[0]!)).toBeLessThan(1e-6);
+    expect(Math.abs(body.curl[0]!)).toBeLessThan(1e-15);
+    expect(Math.abs(body.sverdrup[0]!)).toBeLessThan(1e-6);
     expect(Math.abs(expected)).toBeGreaterThan(1e-12);
-    expect(Math.abs(body!.ekmanPumping[0]! / expected - 1)).toBeLessThan(1e-3);
+    expect(Math.abs(body.ekmanPumping[0]! / expected - 1)).toBeLessThan(1e-3);
     // Positions are each drifter's mean over the hours it took part, not a deployment's.
-    const tw1 = body!.inputs.find((i) => i.platform === "TW-01")!;
+    const tw1 = body.inputs.find((i) => i.platform === "TW-01")!;
     expect(tw1.latitude).toBeGreaterThan(41.2);
     expect(tw1.latitude).toBeLessThan(41.2 + 60e-4);
+    expect(tw1.longitude).toBeGreaterThan(-27.6);
+    expect(tw1.longitude).toBeLessThan(-27.6 + 60e-4);
+  });
+
+  test("a drifter crossing the date line within an hour stays in the array, at its place by the date line", async () => {
+    // The same fleet by the date line: TW-01 crosses it (179.998° E → 179.996° W) in its fourth hour. Averaging its
+    // longitudes plainly would put it near 0° that hour, half the world from the others, and leave it out.
+    const starts = [
+      { id: "TW-01", lat: -41.2, lon: 179.998 },
+      { id: "TW-02", lat: -41.05, lon: 180.15 },
+      { id: "TW-03", lat: -41.25, lon: 179.8 },
+    ];
+    const { body } = await fleetArray(starts);
+    expect(body.note ?? "").not.toMatch(/Left out/);
+    expect(body.time.length).toBe(10);
+    expect(body.used.every((n) => n === 3)).toBe(true);
+    expect(body.curl.every((c) => c !== null && Math.abs(c) < 1e-15)).toBe(true);
+    for (const d of starts) {
+      const m = body.inputs.find((i) => i.platform === d.id)!;
+      // Within the 0.006° it drifted of where it started, measured across the date line.
+      const off = wrapLon(m.longitude - d.lon);
+      expect(off, `${d.id} at ${m.longitude}`).toBeGreaterThanOrEqual(0);
+      expect(off, `${d.id} at ${m.longitude}`).toBeLessThan(60e-4);
+    }
   });
 });
 
