@@ -158,7 +158,7 @@ export function Component() {
                 variables={variables}
                 kind={kind}
                 window={{ from, to }}
-                onWindow={(a, b) => set({ from: a, to: b })}
+                onWindow={(a, b) => set({ from: a, to: b, variable: null })}
                 mode={mode}
                 onModeChange={setMode}
                 hideFlagged={hideFlagged}
