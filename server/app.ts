@@ -30,7 +30,7 @@ import { openApiApi } from "./routes/openapi";
 import { tokensApi } from "./routes/tokens";
 import { apiTokenAuth } from "./middleware/api-token";
 import { optionalSession } from "./middleware/require-session";
-import { datasetVersionsApi, projectArrayApi, versionsApi } from "./routes/versions";
+import { datasetVersionsApi, projectArrayApi, projectArrayV1Api, versionsApi } from "./routes/versions";
 import { exploreApi } from "./routes/explore";
 import { annotationsApi, datasetAnnotationsApi } from "./routes/annotations";
 
@@ -104,7 +104,7 @@ export function createApp(options: AppOptions = {}): Express {
     }
   }) as RequestHandler);
 
-  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi, datasetUploadsApi, uploadsApi, columnMapsApi, datasetVersionsApi, versionsApi, projectArrayApi, exploreApi, datasetAnnotationsApi, annotationsApi, catalogueV1Api, datasetsV1Api, releasesV1Api, downloadsApi, releaseFilesApi, tokensApi, openApiApi]) {
+  for (const api of [meApi, catalogueApi, projectsApi, platformsApi, deploymentsApi, datasetsApi, reviewApi, adminApi, curationApi, releaseActionsApi, releasesApi, datasetReleasesApi, followApi, notificationsApi, datasetUploadsApi, uploadsApi, columnMapsApi, datasetVersionsApi, versionsApi, projectArrayApi, projectArrayV1Api, exploreApi, datasetAnnotationsApi, annotationsApi, catalogueV1Api, datasetsV1Api, releasesV1Api, downloadsApi, releaseFilesApi, tokensApi, openApiApi]) {
     app.use(api.base, api.router);
   }
   app.use("/api", notFoundHandler);

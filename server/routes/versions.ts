@@ -1,6 +1,7 @@
 import { idParamsSchema } from "@shared/schemas/common";
+import { arrayDiagnosticsQuerySchema } from "@shared/schemas/versions";
 import { apiRouter } from "../lib/routes";
-import { cancelVersion, createVersion, getArrayDiagnostics, getVersion, getVersionProgress, retryVersion } from "../services/versions";
+import { arrayDiagnosticsCsv, arrayDiagnosticsCsvName, cancelVersion, createVersion, getArrayDiagnostics, getVersion, getVersionProgress, retryVersion } from "../services/versions";
 
 export const datasetVersionsApi = apiRouter("/api/datasets");
 
@@ -42,4 +43,18 @@ export const projectArrayApi = apiRouter("/api/projects");
 projectArrayApi.get("/:id/array-diagnostics", "session", async (req, res) => {
   const { id } = idParamsSchema.parse(req.params);
   res.json(await getArrayDiagnostics(req.user!, id));
+});
+
+export const projectArrayV1Api = apiRouter("/api/v1/projects");
+
+// GET /api/v1/projects/:id/array-diagnostics?format=json|csv
+projectArrayV1Api.get("/:id/array-diagnostics", "session", async (req, res) => {
+  const { id } = idParamsSchema.parse(req.params);
+  const { format } = arrayDiagnosticsQuerySchema.parse(req.query);
+  const d = await getArrayDiagnostics(req.user!, id);
+  if (format === "json") return void res.json(d);
+  res
+    .set("Content-Type", "text/csv; charset=utf-8")
+    .set("Content-Disposition", `attachment; filename="${arrayDiagnosticsCsvName(d)}"`)
+    .send(arrayDiagnosticsCsv(d));
 });

@@ -11,6 +11,7 @@ import { releaseSchema } from "@shared/schemas/curation";
 import { datasetSchema } from "@shared/schemas/datasets";
 import { downloadQuerySchema, releaseVerificationSchema } from "@shared/schemas/downloads";
 import { apiTokenSchema, createApiTokenInputSchema, createdApiTokenSchema } from "@shared/schemas/tokens";
+import { arrayDiagnosticsQuerySchema, arrayDiagnosticsSchema } from "@shared/schemas/versions";
 import { routeRules, type RouteAccess } from "../lib/routes";
 
 interface Doc {
@@ -19,7 +20,7 @@ interface Doc {
   tag: string;
   query?: z.ZodType;
   body?: z.ZodType;
-  /** JSON answer schema, or a file (media types) for downloads. */
+  /** JSON answer schema, and/or files (media types) for downloads. */
   response?: z.ZodType;
   files?: string[];
   status?: number;
@@ -63,6 +64,15 @@ const docs: Record<string, Doc> = {
       "Released and superseded versions for everyone; other versions for project members only. CSV times are ISO 8601 UTC; each variable (canonical unit) is followed by its `<name>_qc` flag (1 pass, 2 not evaluated, 3 suspect, 4 fail, 9 missing). `datapackage` is a Frictionless Data Package zip. Anonymous callers are rate-limited.",
     query: downloadQuerySchema,
     files: ["text/csv", "application/zip", "application/vnd.apache.parquet"],
+  },
+  "GET /api/v1/projects/{id}/array-diagnostics": {
+    tag: "Projects",
+    summary: "A project's array diagnostics: wind-stress curl, Ekman pumping and Sverdrup transport",
+    description:
+      "Hourly steps where three or more of the project's moorings (and drifters measuring wind) within 500 km of each other have a wind stress: curl from a least-squares plane fit, Ekman pumping with the β term, Sverdrup transport; the platforms that took part; a caution. Project members only. `format=csv` gives every step as CSV in SI units. Estimates for science, not operational guidance.",
+    query: arrayDiagnosticsQuerySchema,
+    response: arrayDiagnosticsSchema,
+    files: ["text/csv"],
   },
   "GET /api/v1/tokens": { tag: "Tokens", summary: "Your API tokens", response: list(apiTokenSchema) },
   "POST /api/v1/tokens": {
@@ -117,18 +127,21 @@ export function openApiDocument(serverUrl: string) {
     const responses: Record<string, unknown> = {
       [ok]: {
         description: "OK",
-        ...(doc?.response
-          ? { content: { "application/json": { schema: toJson(doc.response, "output") } } }
-          : doc?.files
-            ? { content: Object.fromEntries(doc.files.map((m) => [m, { schema: { type: "string", contentMediaType: m } }])) }
-            : {}),
+        ...(doc?.response || doc?.files
+          ? {
+              content: {
+                ...(doc.response ? { "application/json": { schema: toJson(doc.response, "output") } } : {}),
+                ...Object.fromEntries((doc.files ?? []).map((m) => [m, { schema: { type: "string", contentMediaType: m } }])),
+              },
+            }
+          : {}),
       },
       "400": { description: "A parameter is wrong; `details` names each field", content: { "application/json": { schema: errorRef } } },
       "401": { description: "Sign in or send an API token", content: { "application/json": { schema: errorRef } } },
       "403": { description: "Not allowed for this caller", content: { "application/json": { schema: errorRef } } },
       "404": { description: "Not found", content: { "application/json": { schema: errorRef } } },
     };
-    if (doc?.files) responses["429"] = { description: "Too many anonymous downloads", content: { "application/json": { schema: errorRef } } };
+    if (doc?.files && rule.access === "public") responses["429"] = { description: "Too many anonymous downloads", content: { "application/json": { schema: errorRef } } };
     (paths[path] ??= {})[rule.method.toLowerCase()] = {
       tags: [doc?.tag ?? "Other"],
       summary: doc?.summary ?? `${rule.method} ${path}`,

@@ -285,7 +285,24 @@ export async function retryVersion(user: SessionUser, id: string): Promise<Versi
   return getVersionProgress(user, id);
 }
 
-// GET /api/projects/:id/array-diagnostics
+/** The CSV header of `arrayDiagnosticsCsv`: time, how many platforms the plane fit used, then the series in SI units. */
+export const ARRAY_CSV_HEADER = "time_utc,platforms_used,wind_stress_curl_N_m-3,ekman_pumping_upward_m_s-1,sverdrup_transport_m2_s-1";
+
+/** Every step of a project's array diagnostics as CSV (ISO 8601 UTC times; empty cells where a step has no result). */
+export function arrayDiagnosticsCsv(d: ArrayDiagnostics): string {
+  const num = (x: number | null | undefined) => (x === null || x === undefined ? "" : String(x));
+  const lines = [ARRAY_CSV_HEADER];
+  d.time.forEach((t, i) => lines.push([new Date(t * 1000).toISOString(), d.used[i], num(d.curl[i]), num(d.ekmanPumping[i]), num(d.sverdrup[i])].join(",")));
+  return lines.join("\n") + "\n";
+}
+
+/** The file name of that CSV: the period it covers. */
+export function arrayDiagnosticsCsvName(d: ArrayDiagnostics): string {
+  const day = (t: number | undefined) => (t === undefined ? "none" : new Date(t * 1000).toISOString().slice(0, 10));
+  return `array-diagnostics-${day(d.time[0])}-to-${day(d.time[d.time.length - 1])}.csv`;
+}
+
+// GET /api/projects/:id/array-diagnostics (and /api/v1/…)
 export async function getArrayDiagnostics(user: SessionUser, projectId: string): Promise<ArrayDiagnostics> {
   await assertProjectAccess(user, projectId, "read");
   const { rows } = await pool.query(`select * from array_diagnostic_series where project_id = $1`, [projectId]);

@@ -152,3 +152,8 @@ export const arrayDiagnosticsSchema = z.object({
   caution: z.string(),
 });
 export type ArrayDiagnostics = z.infer<typeof arrayDiagnosticsSchema>;
+
+/** Query of GET /api/v1/projects/:id/array-diagnostics. */
+export const arrayDiagnosticsQuerySchema = z.object({
+  format: z.enum(["json", "csv"], { message: "format must be json or csv" }).default("json").describe("`csv`: every step, one line each, in SI units"),
+});

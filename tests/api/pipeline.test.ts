@@ -265,6 +265,20 @@ describe("GET /api/projects/:id/array-diagnostics", () => {
     expect(Math.abs(body!.ekmanPumping[0]! / expected - 1)).toBeLessThan(1e-3);
     expect(body!.used[0]).toBe(3);
 
+    // The same series as CSV from the versioned API, for scripts: one line per step, the numbers as JSON has them.
+    const csv = await as(contributor.cookie).get(`/api/v1/projects/${projectId}/array-diagnostics?format=csv`);
+    expect(csv.status).toBe(200);
+    expect(csv.headers["content-type"]).toMatch(/^text\/csv/);
+    expect(csv.headers["content-disposition"]).toMatch(/^attachment; filename="array-diagnostics-2026-10-01-to-2026-10-01\.csv"$/);
+    const lines = csv.text.trim().split("\n");
+    expect(lines[0]).toBe("time_utc,platforms_used,wind_stress_curl_N_m-3,ekman_pumping_upward_m_s-1,sverdrup_transport_m2_s-1");
+    expect(lines.slice(1).map((l) => l.split(","))).toEqual(
+      body!.time.map((t, i) => [new Date(t * 1000).toISOString(), String(body!.used[i]), String(body!.curl[i]), String(body!.ekmanPumping[i]), String(body!.sverdrup[i])]),
+    );
+    const bad = await as(contributor.cookie).get(`/api/v1/projects/${projectId}/array-diagnostics?format=xlsx`);
+    expect(bad.status).toBe(400);
+    expect(JSON.stringify(bad.body)).toMatch(/format must be json or csv/);
+
     // A fourth mooring an ocean away (invented, off another coast) is no part of this array: it is left out and
     // named, and the array's series stay as they were (a plane fit across a basin is not a local curl).
     const far = await makeMooringDataset(projectId, { latitude: 41.3, longitude: -124.8 });

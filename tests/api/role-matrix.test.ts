@@ -183,6 +183,7 @@ const matrix: Record<string, Case> = {
     expect: writeMembers,
   },
   "GET /api/projects/:id/array-diagnostics": { call: (i) => ({ url: `/api/projects/${i.projectId}/array-diagnostics` }), expect: readMembers },
+  "GET /api/v1/projects/:id/array-diagnostics": { call: (i) => ({ url: `/api/v1/projects/${i.projectId}/array-diagnostics?format=csv` }), expect: readMembers },
   "GET /api/admin/users": { call: () => ({ url: "/api/admin/users" }), expect: adminOnly },
   "PATCH /api/admin/users/:id": {
     call: async () => ({ url: `/api/admin/users/${(await createTestUser()).id}`, body: { isAdmin: false } }),

@@ -80,9 +80,9 @@ test("three moorings' versions give the project its array diagnostics, plotted, 
   await shot(page, "project-array-diagnostics");
 
   // The numbers behind the plots: every step, in SI units.
-  const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("button", { name: "CSV of every step" }).click()]);
+  const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("link", { name: "CSV of every step" }).click()]);
   const lines = readFileSync((await download.path())!, "utf8").trim().split("\n");
-  expect(lines[0]).toBe("time_utc,moorings_used,wind_stress_curl_N_m-3,ekman_pumping_upward_m_s-1,sverdrup_transport_m2_s-1");
+  expect(lines[0]).toBe("time_utc,platforms_used,wind_stress_curl_N_m-3,ekman_pumping_upward_m_s-1,sverdrup_transport_m2_s-1");
   expect(lines).toHaveLength(series.time.length + 1);
   const k = series.curl.findIndex((x) => x !== null);
   const cells = lines[k + 1]!.split(",");

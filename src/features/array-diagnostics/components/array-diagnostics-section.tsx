@@ -1,7 +1,7 @@
 import { useMemo, useState } from "react";
 import type { PlotSeries } from "@shared/schemas/explore";
 import type { ArrayDiagnostics } from "@shared/schemas/versions";
-import { Button } from "@/components/ui/button";
+import { Button, buttonClass } from "@/components/ui/button";
 import type { PanelDef } from "@/features/plots/components/panels";
 import { PlotPanel } from "@/features/plots/components/plot-panel";
 import { getErrorMessage } from "@/lib/api-client";
@@ -30,7 +30,7 @@ export function ArrayDiagnosticsSection({ projectId }: { projectId: string }) {
       title="Array diagnostics"
       description="Wind-stress curl from a least-squares plane fit over the moorings (and drifters measuring wind), Ekman pumping (with the β term) and Sverdrup transport, at hourly steps where three or more of them within 500 km have a wind stress."
     >
-      {q.isPending ? <Loading /> : q.error ? <Alert tone="attention">{getErrorMessage(q.error)}</Alert> : <Body d={q.data} />}
+      {q.isPending ? <Loading /> : q.error ? <Alert tone="attention">{getErrorMessage(q.error)}</Alert> : <Body d={q.data} projectId={projectId} />}
     </Section>
   );
 }
@@ -41,19 +41,6 @@ const PANELS: (PanelDef & { pick: (d: ArrayDiagnostics) => (number | null)[]; sc
   { id: "array-pumping", title: "Ekman pumping, upward positive", unit: "m day-1", variables: [{ key: "ekman_pumping", label: "Ekman pumping" }], pick: (d) => d.ekmanPumping, scale: 86400 },
   { id: "array-sverdrup", title: "Sverdrup transport per unit width", unit: "m2 s-1", variables: [{ key: "sverdrup", label: "Sverdrup transport" }], pick: (d) => d.sverdrup, scale: 1 },
 ];
-
-/** Every step as CSV in SI units (the numbers behind the plots), for the browser to save. */
-function downloadCsv(d: ArrayDiagnostics) {
-  const num = (x: number | null) => (x === null ? "" : String(x));
-  const lines = ["time_utc,moorings_used,wind_stress_curl_N_m-3,ekman_pumping_upward_m_s-1,sverdrup_transport_m2_s-1"];
-  d.time.forEach((t, i) => lines.push([iso(t), d.used[i], num(d.curl[i]!), num(d.ekmanPumping[i]!), num(d.sverdrup[i]!)].join(",")));
-  const url = URL.createObjectURL(new Blob([lines.join("\n") + "\n"], { type: "text/csv" }));
-  const a = document.createElement("a");
-  a.href = url;
-  a.download = `array-diagnostics-${iso(d.time[0]!).slice(0, 10)}-to-${iso(d.time[d.time.length - 1]!).slice(0, 10)}.csv`;
-  a.click();
-  URL.revokeObjectURL(url);
-}
 
 /** One step per hour with a value: a "bucket" whose min, mean and max are that value. */
 function seriesOf(d: ArrayDiagnostics): PlotSeries[] {
@@ -73,14 +60,14 @@ function seriesOf(d: ArrayDiagnostics): PlotSeries[] {
   });
 }
 
-function Body({ d }: { d: ArrayDiagnostics }) {
+function Body({ d, projectId }: { d: ArrayDiagnostics; projectId: string }) {
   const series = useMemo(() => seriesOf(d), [d]);
   const [zoom, setZoom] = useState<{ from: number; to: number } | null>(null);
   const steps = d.time.length;
   if (!steps || !d.curl.some((x) => x !== null))
     return (
       <EmptyState title="No array diagnostics yet">
-        {d.note ?? "They are computed after a mooring version is built, once three or more moorings with a position overlap in time."}
+        {d.note ?? "They are computed after a version is built, once three or more moorings with a position (or drifters measuring wind) overlap in time within 500 km."}
       </EmptyState>
     );
   const rows = d.time.map((t, i) => ({ t, used: d.used[i]!, curl: d.curl[i]!, w: d.ekmanPumping[i]!, sv: d.sverdrup[i]! })).filter((r) => r.used >= 3);
@@ -109,9 +96,9 @@ function Body({ d }: { d: ArrayDiagnostics }) {
       {d.note ? <p className="text-sm text-muted">{d.note}</p> : null}
       <div className="flex flex-wrap items-center gap-3 text-sm text-muted">
         <span>Hourly values; drag across a plot to zoom in.</span>
-        <Button size="sm" variant="secondary" onClick={() => downloadCsv(d)}>
+        <a className={buttonClass("secondary", "sm")} href={`/api/v1/projects/${projectId}/array-diagnostics?format=csv`} download>
           CSV of every step
-        </Button>
+        </a>
         {zoom ? (
           <Button size="sm" variant="secondary" onClick={() => setZoom(null)}>
             Whole period
@@ -166,7 +153,7 @@ function Body({ d }: { d: ArrayDiagnostics }) {
         <thead>
           <tr>
             <Th>Hour starting (UTC)</Th>
-            <Th numeric>Moorings used</Th>
+            <Th numeric>{d.inputs.some((i) => i.kind === "drifter") ? "Platforms used" : "Moorings used"}</Th>
             <Th numeric unit="10⁻⁷ N m⁻³">Curl</Th>
             <Th numeric unit="m day⁻¹">Ekman pumping</Th>
             <Th numeric unit="m² s⁻¹">Sverdrup</Th>
