@@ -10,7 +10,7 @@ import { flagSql } from "../../server/db/record-flags";
 /**
  * Migration 0014 on a database that already holds records in the earlier layout (one smallint flag column per
  * variable): the flags are packed into their FLAG_ORDER places, values and version ranges are kept, and the
- * table's guards come back. Runs on a scratch database of its own: migrations up to 0013 from a copy of drizzle/
+ * table's guards come back; then 0016 moves each row into its version's partition. Runs on a scratch database of its own: migrations up to 0013 from a copy of drizzle/
  * whose journal ends there, rows written the old way, then every migration.
  */
 const base = new URL(process.env.DATABASE_URL!);
@@ -77,6 +77,13 @@ describe("migration 0014 (packed flags)", () => {
       expect(cols.rows).toEqual([]);
       const triggers = await pool.query(`select tgname from pg_trigger where tgrelid = 'records'::regclass and not tgisinternal order by 1`);
       expect(triggers.rows.map((r) => r.tgname)).toEqual(["records_frozen_delete_guard", "records_frozen_update_guard", "records_no_truncate"]);
+
+      // Migration 0016 then moved each row into the partition of the version that wrote it, with the same guards.
+      const hex = ds.replace(/-/g, "");
+      const parts = await pool.query(`select tableoid::regclass::text as t from records order by time`);
+      expect(parts.rows.map((r) => r.t)).toEqual([`records_${hex}_1`, `records_${hex}_2`]);
+      const partTriggers = await pool.query(`select tgname from pg_trigger where tgrelid = $1::regclass and not tgisinternal order by 1`, [`records_${hex}_1`]);
+      expect(partTriggers.rows.map((r) => r.tgname)).toEqual(["records_frozen_delete_guard", "records_frozen_update_guard", "records_no_truncate"]);
     } finally {
       await pool.end();
     }
