@@ -188,13 +188,22 @@ export function encodePlotSeriesRow(versionId: string, r: PlotSeriesArrays): Buf
     dv.setInt32(o + 16, len);
     dv.setInt32(o + 20, 1);
     o += 24;
-    for (let i = 0; i < len; i++) {
-      dv.setInt32(o, elem);
-      if (oid === OID.float4) dv.setFloat32(o + 4, a[i]!);
-      else if (elem === 4) dv.setInt32(o + 4, a[i]!);
-      else dv.setInt16(o + 4, a[i]!);
-      o += 4 + elem;
-    }
+    // One loop per element type: no type test per element (a month of minute buckets is ~10 M elements).
+    if (oid === OID.float4)
+      for (let i = 0; i < len; i++, o += 8) {
+        dv.setInt32(o, 4);
+        dv.setFloat32(o + 4, a[i]!);
+      }
+    else if (elem === 4)
+      for (let i = 0; i < len; i++, o += 8) {
+        dv.setInt32(o, 4);
+        dv.setInt32(o + 4, a[i]!);
+      }
+    else
+      for (let i = 0; i < len; i++, o += 6) {
+        dv.setInt32(o, 2);
+        dv.setInt16(o + 4, a[i]!);
+      }
   };
   array(r.min, OID.float4, 4);
   array(r.max, OID.float4, 4);

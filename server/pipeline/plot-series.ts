@@ -1,3 +1,4 @@
+import { once } from "node:events";
 import type pg from "pg";
 import { from as copyFrom } from "pg-copy-streams";
 import { copyHeader, copyTrailer, encodePlotSeriesRow, type PlotSeriesArrays } from "./copy-encoder";
@@ -11,7 +12,8 @@ export async function writePlotSeries(client: pg.PoolClient, versionId: string, 
     copy.on("error", reject);
   });
   copy.write(copyHeader());
-  for (const r of rows) copy.write(encodePlotSeriesRow(versionId, r));
+  // Hand each row to the socket before encoding the next, so PostgreSQL reads one while this process encodes another.
+  for (const r of rows) if (!copy.write(encodePlotSeriesRow(versionId, r))) await once(copy, "drain");
   copy.end(copyTrailer());
   await done;
 }
