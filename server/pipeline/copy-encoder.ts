@@ -134,9 +134,6 @@ export function createRecordEncoder(datasetId: string, validFrom: number, variab
   };
 }
 
-/** Element types of PostgreSQL binary arrays (pg_type OIDs). */
-const OID = { int2: 21, int4: 23, float4: 700 } as const;
-
 /** Bucket arrays of one plot series, as written to plot_series. */
 export interface PlotSeriesArrays {
   platform: string;
@@ -152,15 +149,14 @@ export interface PlotSeriesArrays {
 
 /**
  * One plot_series row in binary COPY form (columns version_id, platform, variable, step_s, t0, min, max, mean, n,
- * worst_flag). Binary arrays (PostgreSQL manual, array_recv: ndim, has-null flag, element OID, size and lower bound,
- * then length-prefixed elements) spare the server parsing millions of numbers as text.
+ * worst_flag). The bucket arrays are bytea fields of big-endian elements (server/db/plot-arrays.ts): float4 min, max
+ * and mean, int4 n, int2 worst flag.
  */
 export function encodePlotSeriesRow(versionId: string, r: PlotSeriesArrays): Buffer {
   const plat = Buffer.from(r.platform, "utf8");
   const variable = Buffer.from(r.variable, "utf8");
   const len = r.min.length;
-  const arr = (elem: number) => 4 + 20 + len * (4 + elem);
-  const size = 2 + 20 + 4 + plat.length + 4 + variable.length + 8 + 12 + 3 * arr(4) + arr(4) + arr(2);
+  const size = 2 + 20 + 4 + plat.length + 4 + variable.length + 8 + 12 + 5 * 4 + len * (4 * 4 + 2);
   const buf = Buffer.allocUnsafe(size);
   const dv = new DataView(buf.buffer, buf.byteOffset, buf.length);
   let o = 0;
@@ -180,35 +176,16 @@ export function encodePlotSeriesRow(versionId: string, r: PlotSeriesArrays): Buf
   dv.setInt32(o, 8);
   dv.setFloat64(o + 4, r.t0);
   o += 12;
-  const array = (a: ArrayLike<number>, oid: number, elem: 2 | 4) => {
-    dv.setInt32(o, 20 + len * (4 + elem));
-    dv.setInt32(o + 4, 1);
-    dv.setInt32(o + 8, 0);
-    dv.setInt32(o + 12, oid);
-    dv.setInt32(o + 16, len);
-    dv.setInt32(o + 20, 1);
-    o += 24;
-    // One loop per element type: no type test per element (a month of minute buckets is ~10 M elements).
-    if (oid === OID.float4)
-      for (let i = 0; i < len; i++, o += 8) {
-        dv.setInt32(o, 4);
-        dv.setFloat32(o + 4, a[i]!);
-      }
-    else if (elem === 4)
-      for (let i = 0; i < len; i++, o += 8) {
-        dv.setInt32(o, 4);
-        dv.setInt32(o + 4, a[i]!);
-      }
-    else
-      for (let i = 0; i < len; i++, o += 6) {
-        dv.setInt32(o, 2);
-        dv.setInt16(o + 4, a[i]!);
-      }
-  };
-  array(r.min, OID.float4, 4);
-  array(r.max, OID.float4, 4);
-  array(r.mean, OID.float4, 4);
-  array(r.n, OID.int4, 4);
-  array(r.worstFlag, OID.int2, 2);
+  for (const a of [r.min, r.max, r.mean]) {
+    dv.setInt32(o, len * 4);
+    o += 4;
+    for (let i = 0; i < len; i++, o += 4) dv.setFloat32(o, a[i]!);
+  }
+  dv.setInt32(o, len * 4);
+  o += 4;
+  for (let i = 0; i < len; i++, o += 4) dv.setInt32(o, r.n[i]!);
+  dv.setInt32(o, len * 2);
+  o += 4;
+  for (let i = 0; i < len; i++, o += 2) dv.setInt16(o, r.worstFlag[i]!);
   return buf.subarray(0, o);
 }

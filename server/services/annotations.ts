@@ -12,6 +12,7 @@ import type { VersionState } from "@shared/schemas/datasets";
 import { derivedVariables, measuredVariables, type DerivedVariable, type MeasuredVariable } from "@shared/vocabulary";
 import { pool } from "../db/client";
 import { flagSql, recordVariables, setFlagsSql } from "../db/record-flags";
+import { readI2, readI4, writeI2 } from "../db/plot-arrays";
 import { ensureRecordPartition } from "../db/record-partitions";
 import { AppError, notFound, unauthenticated } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
@@ -275,7 +276,13 @@ async function rederive(tx: pg.ClientBase, datasetId: string, N: number, setting
 async function patchPlotSeries(tx: pg.ClientBase, datasetId: string, N: number, versionId: string) {
   const spans = await tx.query(`select platform, extract(epoch from min(time))::float8 as lo, extract(epoch from max(time))::float8 as hi from mf_touched group by platform`);
   if (!spans.rows.length) return;
-  const series = await tx.query(`select platform, variable, step_s, t0, worst_flag, n from plot_series where version_id = $1`, [versionId]);
+  const series = {
+    rows: (await tx.query(`select platform, variable, step_s, t0, worst_flag, n from plot_series where version_id = $1`, [versionId])).rows.map((r) => ({
+      ...r,
+      worst_flag: Array.from(readI2(r.worst_flag)),
+      n: readI4(r.n),
+    })),
+  };
   if (!series.rows.length) return;
   const variables = [...new Set(series.rows.map((r) => r.variable as string))].filter(isKnownVariable);
   for (const step of [...new Set(series.rows.map((r) => r.step_s as number))]) {
@@ -305,7 +312,7 @@ async function patchPlotSeries(tx: pg.ClientBase, datasetId: string, N: number, 
           }
         }
         if (changed)
-          await tx.query(`update plot_series set worst_flag = $5 where version_id = $1 and platform = $2 and variable = $3 and step_s = $4`, [versionId, s.platform, s.variable, step, wf]);
+          await tx.query(`update plot_series set worst_flag = $5 where version_id = $1 and platform = $2 and variable = $3 and step_s = $4`, [versionId, s.platform, s.variable, step, writeI2(wf)]);
       }
     }
   }

@@ -15,6 +15,7 @@ import { derivedVariables, measuredVariables } from "@shared/vocabulary";
 import type { VersionState } from "@shared/schemas/datasets";
 import type { Db } from "../db/client";
 import { db } from "../db/client";
+import { readI2 } from "../db/plot-arrays";
 import { flagSql } from "../db/record-flags";
 import { auditLog, datasets, plotSeries, projects, qcRuns, releases, reviews, uploads, user as users, versionComments, versions } from "../db/schema";
 import { conflict, forbidden, notFound } from "../lib/errors";
@@ -304,7 +305,8 @@ async function flaggedStretches(versionId: string, limit = 12): Promise<VersionR
     .where(and(eq(plotSeries.versionId, versionId), eq(plotSeries.stepS, 3600)));
   const out: VersionReview["stretches"] = [];
   const iso = (t: number) => new Date(t * 1000).toISOString();
-  for (const r of rows) {
+  for (const row of rows) {
+    const r = { ...row, worst: readI2(row.worst) };
     let start = -1;
     let worst = 0;
     for (let i = 0; i <= r.worst.length; i++) {

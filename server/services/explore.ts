@@ -16,6 +16,7 @@ import type { VersionState } from "@shared/schemas/datasets";
 import { derivedVocabulary, vocabulary, type DerivedVariable, type MeasuredVariable } from "@shared/vocabulary";
 import { pool } from "../db/client";
 import { flagSql } from "../db/record-flags";
+import { readF4, readI2, readI4 } from "../db/plot-arrays";
 import { PLOT_STEPS_S } from "../pipeline/summarise";
 import { AppError, conflict, forbidden, notFound, unauthenticated } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
@@ -140,51 +141,63 @@ type Plan = ReturnType<typeof planWindow>;
 /** The platforms to read: the one asked for, else all of the version's (so the primary key bounds the time range). */
 const platformsOf = (v: ReadableVersion, platform: string | undefined) => (platform !== undefined ? [platform] : (v.summary?.platforms.map((p) => p.id) ?? [""]));
 
+/** A plot_series row's worst flags and counts as arrays (stored as bytea; server/db/plot-arrays.ts). */
+const decodeFlags = <R extends { worst_flag: Buffer; n: Buffer }>(r: R) => ({ ...r, worst_flag: Array.from(readI2(r.worst_flag)), n: Array.from(readI4(r.n)) });
+
 async function seriesBuckets(v: ReadableVersion, variables: string[], platform: string | undefined, plan: Plan): Promise<PlotSeries[]> {
-  // PostgreSQL unnests only the window's slice of each array (a few thousand buckets at the level the plan picked);
-  // the fold into output buckets happens here, which costs less than a sort + group in the query.
+  // PostgreSQL cuts only the window's bytes out of each series' arrays (a few thousand buckets at the level the
+  // plan picked; server/db/plot-arrays.ts); the fold into output buckets happens here.
   const step = plan.seriesStep!;
-  const { rows } = await pool.query({
-    text: `select s.variable, s.platform, s.t0 + (x.lo + g.i - 2) * s.step_s as t, g.mn, g.mx, g.me, g.n, g.wf
+  const { rows } = await pool.query<{ variable: string; platform: string; t0: number; step_s: number; lo: number; mn: Buffer; mx: Buffer; me: Buffer; n: Buffer; wf: Buffer }>({
+    text: `select s.variable, s.platform, s.t0, s.step_s, x.lo,
+                  substring(s.min from x.lo * 4 + 1 for x.k * 4) as mn, substring(s.max from x.lo * 4 + 1 for x.k * 4) as mx,
+                  substring(s.mean from x.lo * 4 + 1 for x.k * 4) as me, substring(s.n from x.lo * 4 + 1 for x.k * 4) as n,
+                  substring(s.worst_flag from x.lo * 2 + 1 for x.k * 2) as wf
              from plot_series s,
-                  lateral (select greatest(1, floor(($4::float8 - s.t0) / s.step_s)::int + 1) as lo, ceil(($5::float8 - s.t0) / s.step_s)::int as hi) x,
-                  lateral unnest(s.min[x.lo:x.hi], s.max[x.lo:x.hi], s.mean[x.lo:x.hi], s.n[x.lo:x.hi], s.worst_flag[x.lo:x.hi]) with ordinality as g(mn, mx, me, n, wf, i)
-            where s.version_id = $1 and s.step_s = $2 and s.variable = any($3) and ($6::text is null or s.platform = $6) and g.n > 0`,
+                  lateral (select greatest(0, floor(($4::float8 - s.t0) / s.step_s)::int) as lo) l,
+                  lateral (select l.lo, greatest(0, ceil(($5::float8 - s.t0) / s.step_s)::int - l.lo) as k) x
+            where s.version_id = $1 and s.step_s = $2 and s.variable = any($3) and ($6::text is null or s.platform = $6)`,
     values: [v.id, step, variables, plan.from, plan.to, platform ?? null],
-    rowMode: "array",
   });
   const out = new Map<string, PlotSeries & { sum: number[] }>();
-  for (const r of rows as unknown[][]) {
-    const t = Number(r[2]);
-    if (t < plan.from || t >= plan.to) continue;
-    const variable = r[0] as string;
-    const p = r[1] as string;
+  for (const r of rows) {
+    const variable = r.variable;
+    const p = r.platform;
     const key = `${p}\u0000${variable}`;
-    let s = out.get(key);
-    if (!s) out.set(key, (s = { variable, platform: p, unit: unitOf(variable), t: [], min: [], max: [], mean: [], n: [], worstFlag: [], sum: [] }));
-    const b = Math.floor(t / plan.stepS) * plan.stepS;
-    const mn = Number(r[3]);
-    const mx = Number(r[4]);
-    const n = Number(r[6]);
-    const wf = Number(r[7]);
-    const k = s.t.length - 1;
-    // Rows of one series arrive in array order, so a new bucket starts whenever b moves on.
-    if (k < 0 || s.t[k] !== b) {
-      s.t.push(b);
-      s.min.push(mn);
-      s.max.push(mx);
-      s.n.push(n);
-      s.sum.push(Number(r[5]) * n);
-      s.worstFlag.push(wf === 9 ? 0 : wf);
-    } else {
-      if (mn < s.min[k]!) s.min[k] = mn;
-      if (mx > s.max[k]!) s.max[k] = mx;
-      s.n[k]! += n;
-      s.sum[k]! += Number(r[5]) * n;
-      if (wf !== 9 && wf > s.worstFlag[k]!) s.worstFlag[k] = wf;
+    const MN = readF4(r.mn), MX = readF4(r.mx), ME = readF4(r.me), N = readI4(r.n), WF = readI2(r.wf);
+    for (let j = 0; j < N.length; j++) {
+      const n = N[j]!;
+      if (!(n > 0)) continue;
+      const t = r.t0 + (r.lo + j) * r.step_s;
+      if (t < plan.from || t >= plan.to) continue;
+      let s = out.get(key);
+      if (!s) out.set(key, (s = { variable, platform: p, unit: unitOf(variable), t: [], min: [], max: [], mean: [], n: [], worstFlag: [], sum: [] }));
+      const b = Math.floor(t / plan.stepS) * plan.stepS;
+      const mn = MN[j]!;
+      const mx = MX[j]!;
+      const wf = WF[j]!;
+      const k = s.t.length - 1;
+      // A series' buckets come in time order, so a new output bucket starts whenever b moves on.
+      if (k < 0 || s.t[k] !== b) {
+        s.t.push(b);
+        s.min.push(mn);
+        s.max.push(mx);
+        s.n.push(n);
+        s.sum.push(ME[j]! * n);
+        s.worstFlag.push(wf === 9 ? 0 : wf);
+      } else {
+        if (mn < s.min[k]!) s.min[k] = mn;
+        if (mx > s.max[k]!) s.max[k] = mx;
+        s.n[k]! += n;
+        s.sum[k]! += ME[j]! * n;
+        if (wf !== 9 && wf > s.worstFlag[k]!) s.worstFlag[k] = wf;
+      }
     }
   }
-  return [...out.values()].map(({ sum, ...s }) => ({ ...s, mean: sum.map((x, i) => x / s.n[i]!), worstFlag: s.worstFlag.map((f) => f || 9) }));
+  // Stored extremes are float4: seven significant digits say all they hold, where their exact double expansion would
+  // print as 7.331999778747559 for 7.332.
+  const f4 = (x: number) => Number(x.toPrecision(7));
+  return [...out.values()].map(({ sum, ...s }) => ({ ...s, min: s.min.map(f4), max: s.max.map(f4), mean: sum.map((x, i) => x / s.n[i]!), worstFlag: s.worstFlag.map((f) => f || 9) }));
 }
 
 async function recordBuckets(v: ReadableVersion, variables: string[], platform: string | undefined, plan: Plan): Promise<PlotSeries[]> {
@@ -321,7 +334,7 @@ export async function getQcReport(user: SessionUser | null | undefined, id: stri
     .map((x) => ({ key: x.variable, label: labelOf(x.variable), unit: unitOf(x.variable), derived: x.variable in derivedVocabulary, flags: x.flags }));
 
   // Timeline: hourly worst flags, folded to at most 720 columns (max of each group).
-  const hourly = await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 3600`, [v.id]);
+  const hourly = { rows: (await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 3600`, [v.id])).rows.map(decodeFlags) };
   let timeline: QcReport["timeline"] = null;
   if (hourly.rows.length) {
     const t0 = Math.min(...hourly.rows.map((r) => r.t0));
@@ -351,7 +364,7 @@ export async function getQcReport(user: SessionUser | null | undefined, id: stri
   }
 
   // Worst stretches: runs of minutes holding suspect or failed values (gaps up to 10 minutes bridged).
-  const minutes = await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 60`, [v.id]);
+  const minutes = { rows: (await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 60`, [v.id])).rows.map(decodeFlags) };
   const stretches: QcStretch[] = [];
   for (const r of minutes.rows) {
     const wf = r.worst_flag as number[];
@@ -413,7 +426,7 @@ export async function getTrack(user: SessionUser | null | undefined, id: string)
     const byP = new Map<string, Record<string, { t0: number; mean: number[]; wf: number[]; n: number[] }>>();
     for (const r of rows) {
       const m = byP.get(r.platform) ?? {};
-      m[r.variable] = { t0: r.t0, mean: r.mean, wf: r.worst_flag, n: r.n };
+      m[r.variable] = { t0: r.t0, mean: Array.from(readF4(r.mean)), wf: Array.from(readI2(r.worst_flag)), n: Array.from(readI4(r.n)) };
       byP.set(r.platform, m);
     }
     for (const [platform, m] of byP) {

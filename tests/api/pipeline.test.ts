@@ -5,6 +5,7 @@ import { stopSender } from "../../server/jobs/queue";
 import { as, makeProjectWithRoles } from "../helpers/api";
 import { countRows, makeMooringDataset, mooringMap, mooringText, startWorker, storeUpload, versionRows, waitForVersion, type WorkerHandle } from "../helpers/pipeline";
 import { flagSql, setFlagsSql } from "../../server/db/record-flags";
+import { readF4, readI4 } from "../../server/db/plot-arrays";
 import { randomUUID } from "node:crypto";
 import { datasets, deployments, platforms } from "../../server/db/schema";
 import { db } from "../../server/db/client";
@@ -74,16 +75,17 @@ describe("POST /api/datasets/:id/versions", () => {
     expect(rows[0]!.t).toBe(day);
     // degC in the file → K in records (canonical unit, shared/vocabulary.ts).
     expect(Number(rows[0]!.air_temperature)).toBeGreaterThan(270);
-    const series = await pool.query(`select platform, step_s, array_length(n, 1) as len, t0 from plot_series where version_id = $1 and variable = 'wind_speed' order by step_s`, [v.id]);
+    // Bucket arrays are bytea of big-endian elements, 4 bytes a count (server/db/plot-arrays.ts).
+    const series = await pool.query(`select platform, step_s, length(n) / 4 as len, t0 from plot_series where version_id = $1 and variable = 'wind_speed' order by step_s`, [v.id]);
     const len = (step: number) => series.rows.find((r) => r.step_s === step)?.len;
     expect(len(60)).toBe(1440);
     expect(len(3600)).toBe(24);
     // The first hour's bucket agrees with the records it summarises (stored as float4).
-    const hour = await pool.query(`select min[1] as lo, max[1] as hi, n[1] as n from plot_series where version_id = $1 and variable = 'wind_speed' and step_s = 3600`, [v.id]);
+    const hour = (await pool.query(`select min, max, n from plot_series where version_id = $1 and variable = 'wind_speed' and step_s = 3600`, [v.id])).rows[0];
     const raw = await pool.query(`select min(wind_speed) as lo, max(wind_speed) as hi, count(*)::int as n from records where dataset_id = $1 and time < to_timestamp($2)`, [datasetId, day + 3600]);
-    expect(hour.rows[0].n).toBe(60);
-    expect(hour.rows[0].lo).toBeCloseTo(raw.rows[0].lo, 5);
-    expect(hour.rows[0].hi).toBeCloseTo(raw.rows[0].hi, 5);
+    expect(readI4(hour.n)[0]).toBe(60);
+    expect(readF4(hour.min)[0]).toBeCloseTo(raw.rows[0].lo, 5);
+    expect(readF4(hour.max)[0]).toBeCloseTo(raw.rows[0].hi, 5);
   });
 
   test("refuses an upload of another dataset (forged id) and an append with nothing to append to", async () => {

@@ -2,6 +2,7 @@ import { createHash, randomUUID } from "node:crypto";
 import pg from "pg";
 import { demoMooringDefaults, mooringChunks } from "../../shared/demo/generate";
 import { packFlags } from "../../server/db/record-flags";
+import { writeF4, writeI2, writeI4 } from "../../server/db/plot-arrays";
 
 /**
  * Test-only seeding for the curation browser test: writes versions as the processing pipeline leaves them
@@ -126,7 +127,7 @@ async function addVersion(
   const nan = worst.map(() => Number.NaN);
   await c.query(
     `insert into plot_series (version_id, platform, variable, step_s, t0, min, max, mean, n, worst_flag) values ($1, '', 'wind_speed', 3600, $2, $3, $3, $3, $4, $5)`,
-    [v.id, t0, nan, worst.map(() => 6), worst],
+    [v.id, t0, writeF4(nan), writeI4(worst.map(() => 6)), writeI2(worst)],
   );
   await c.query(`insert into audit_log (actor_id, action, entity_type, entity_id, from_state, to_state) values (null, 'version.built', 'version', $1, 'processing', 'ready')`, [v.id]);
   if (o.state === "in_review") {
