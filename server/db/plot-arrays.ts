@@ -6,9 +6,6 @@
  * bytes. Readers decode with the functions below; SQL takes a range of buckets with `substring(col from …)`.
  */
 
-/** Bytes per element of each array. */
-export const PLOT_ELEMENT_BYTES = { min: 4, max: 4, mean: 4, n: 4, worst_flag: 2 } as const;
-
 const view = (b: Uint8Array) => new DataView(b.buffer, b.byteOffset, b.byteLength);
 
 /** float4 elements of a bytea value. */

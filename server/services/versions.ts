@@ -286,7 +286,7 @@ export async function retryVersion(user: SessionUser, id: string): Promise<Versi
 }
 
 /** The CSV header of `arrayDiagnosticsCsv`: time, how many platforms the plane fit used, then the series in SI units. */
-export const ARRAY_CSV_HEADER = "time_utc,platforms_used,wind_stress_curl_N_m-3,ekman_pumping_upward_m_s-1,sverdrup_transport_m2_s-1";
+const ARRAY_CSV_HEADER = "time_utc,platforms_used,wind_stress_curl_N_m-3,ekman_pumping_upward_m_s-1,sverdrup_transport_m2_s-1";
 
 /** Every step of a project's array diagnostics as CSV (ISO 8601 UTC times; empty cells where a step has no result). */
 export function arrayDiagnosticsCsv(d: ArrayDiagnostics): string {
