@@ -276,16 +276,14 @@ async function rederive(tx: pg.ClientBase, datasetId: string, N: number, setting
 async function patchPlotSeries(tx: pg.ClientBase, datasetId: string, N: number, versionId: string) {
   const spans = await tx.query(`select platform, extract(epoch from min(time))::float8 as lo, extract(epoch from max(time))::float8 as hi from mf_touched group by platform`);
   if (!spans.rows.length) return;
-  const series = {
-    rows: (await tx.query(`select platform, variable, step_s, t0, worst_flag, n from plot_series where version_id = $1`, [versionId])).rows.map((r) => ({
-      ...r,
-      worst_flag: Array.from(readI2(r.worst_flag)),
-      n: readI4(r.n),
-    })),
-  };
-  if (!series.rows.length) return;
-  const variables = [...new Set(series.rows.map((r) => r.variable as string))].filter(isKnownVariable);
-  for (const step of [...new Set(series.rows.map((r) => r.step_s as number))]) {
+  const series = (await tx.query(`select platform, variable, step_s, t0, worst_flag, n from plot_series where version_id = $1`, [versionId])).rows.map((r) => ({
+    ...r,
+    worst_flag: Array.from(readI2(r.worst_flag)),
+    n: readI4(r.n),
+  }));
+  if (!series.length) return;
+  const variables = [...new Set(series.map((r) => r.variable as string))].filter(isKnownVariable);
+  for (const step of [...new Set(series.map((r) => r.step_s as number))]) {
     for (const span of spans.rows) {
       const lo = Math.floor(span.lo / step) * step;
       const hi = Math.floor(span.hi / step) * step + step;
@@ -297,7 +295,7 @@ async function patchPlotSeries(tx: pg.ClientBase, datasetId: string, N: number, 
         values: [datasetId, N, span.platform, step, lo, hi],
         rowMode: "array",
       });
-      for (const s of series.rows.filter((r) => r.step_s === step && r.platform === span.platform)) {
+      for (const s of series.filter((r) => r.step_s === step && r.platform === span.platform)) {
         const k = variables.indexOf(s.variable);
         if (k < 0) continue;
         const wf = s.worst_flag as number[];

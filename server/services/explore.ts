@@ -334,16 +334,16 @@ export async function getQcReport(user: SessionUser | null | undefined, id: stri
     .map((x) => ({ key: x.variable, label: labelOf(x.variable), unit: unitOf(x.variable), derived: x.variable in derivedVocabulary, flags: x.flags }));
 
   // Timeline: hourly worst flags, folded to at most 720 columns (max of each group).
-  const hourly = { rows: (await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 3600`, [v.id])).rows.map(decodeFlags) };
+  const hourly = (await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 3600`, [v.id])).rows.map(decodeFlags);
   let timeline: QcReport["timeline"] = null;
-  if (hourly.rows.length) {
-    const t0 = Math.min(...hourly.rows.map((r) => r.t0));
-    const end = Math.max(...hourly.rows.map((r) => r.t0 + r.worst_flag.length * 3600));
+  if (hourly.length) {
+    const t0 = Math.min(...hourly.map((r) => r.t0));
+    const end = Math.max(...hourly.map((r) => r.t0 + r.worst_flag.length * 3600));
     const fold = Math.max(1, Math.ceil((end - t0) / 3600 / 720));
     const stepS = 3600 * fold;
     const length = Math.ceil((end - t0) / stepS);
     const byVar = new Map<string, number[]>();
-    for (const r of hourly.rows) {
+    for (const r of hourly) {
       let row = byVar.get(r.variable);
       if (!row) byVar.set(r.variable, (row = new Array(length).fill(0)));
       const off = Math.round((r.t0 - t0) / 3600);
@@ -364,9 +364,9 @@ export async function getQcReport(user: SessionUser | null | undefined, id: stri
   }
 
   // Worst stretches: runs of minutes holding suspect or failed values (gaps up to 10 minutes bridged).
-  const minutes = { rows: (await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 60`, [v.id])).rows.map(decodeFlags) };
+  const minutes = (await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 60`, [v.id])).rows.map(decodeFlags);
   const stretches: QcStretch[] = [];
-  for (const r of minutes.rows) {
+  for (const r of minutes) {
     const wf = r.worst_flag as number[];
     let start = -1;
     let lastHit = -1;
