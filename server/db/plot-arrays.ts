@@ -52,3 +52,8 @@ export function writeI4(a: ArrayLike<number>): Buffer {
   for (let i = 0; i < a.length; i++) b.writeInt32BE(a[i]!, i * 4);
   return b;
 }
+
+/** A plot_series row with its worst flags and counts decoded into plain arrays (the other fields as they were). */
+export function decodeFlagsAndCounts<R extends { worst_flag: Uint8Array; n: Uint8Array }>(r: R): Omit<R, "worst_flag" | "n"> & { worst_flag: number[]; n: number[] } {
+  return { ...r, worst_flag: Array.from(readI2(r.worst_flag)), n: Array.from(readI4(r.n)) };
+}

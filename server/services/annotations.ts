@@ -12,7 +12,7 @@ import type { VersionState } from "@shared/schemas/datasets";
 import { derivedVariables, measuredVariables, type DerivedVariable, type MeasuredVariable } from "@shared/vocabulary";
 import { pool } from "../db/client";
 import { flagSql, recordVariables, setFlagsSql } from "../db/record-flags";
-import { readI2, readI4, writeI2 } from "../db/plot-arrays";
+import { decodeFlagsAndCounts, writeI2 } from "../db/plot-arrays";
 import { ensureRecordPartition } from "../db/record-partitions";
 import { AppError, notFound, unauthenticated } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
@@ -276,11 +276,7 @@ async function rederive(tx: pg.ClientBase, datasetId: string, N: number, setting
 async function patchPlotSeries(tx: pg.ClientBase, datasetId: string, N: number, versionId: string) {
   const spans = await tx.query(`select platform, extract(epoch from min(time))::float8 as lo, extract(epoch from max(time))::float8 as hi from mf_touched group by platform`);
   if (!spans.rows.length) return;
-  const series = (await tx.query(`select platform, variable, step_s, t0, worst_flag, n from plot_series where version_id = $1`, [versionId])).rows.map((r) => ({
-    ...r,
-    worst_flag: Array.from(readI2(r.worst_flag)),
-    n: readI4(r.n),
-  }));
+  const series = (await tx.query(`select platform, variable, step_s, t0, worst_flag, n from plot_series where version_id = $1`, [versionId])).rows.map(decodeFlagsAndCounts);
   if (!series.length) return;
   const variables = [...new Set(series.map((r) => r.variable as string))].filter(isKnownVariable);
   for (const step of [...new Set(series.map((r) => r.step_s as number))]) {

@@ -16,7 +16,7 @@ import type { VersionState } from "@shared/schemas/datasets";
 import { derivedVocabulary, vocabulary, type DerivedVariable, type MeasuredVariable } from "@shared/vocabulary";
 import { pool } from "../db/client";
 import { flagSql } from "../db/record-flags";
-import { readF4, readI2, readI4 } from "../db/plot-arrays";
+import { decodeFlagsAndCounts, readF4, readI2, readI4 } from "../db/plot-arrays";
 import { PLOT_STEPS_S } from "../pipeline/summarise";
 import { AppError, conflict, forbidden, notFound, unauthenticated } from "../lib/errors";
 import type { SessionUser } from "../middleware/require-session";
@@ -140,9 +140,6 @@ type Plan = ReturnType<typeof planWindow>;
 
 /** The platforms to read: the one asked for, else all of the version's (so the primary key bounds the time range). */
 const platformsOf = (v: ReadableVersion, platform: string | undefined) => (platform !== undefined ? [platform] : (v.summary?.platforms.map((p) => p.id) ?? [""]));
-
-/** A plot_series row's worst flags and counts as arrays (stored as bytea; server/db/plot-arrays.ts). */
-const decodeFlags = <R extends { worst_flag: Buffer; n: Buffer }>(r: R) => ({ ...r, worst_flag: Array.from(readI2(r.worst_flag)), n: Array.from(readI4(r.n)) });
 
 async function seriesBuckets(v: ReadableVersion, variables: string[], platform: string | undefined, plan: Plan): Promise<PlotSeries[]> {
   // PostgreSQL cuts only the window's bytes out of each series' arrays (a few thousand buckets at the level the
@@ -334,7 +331,7 @@ export async function getQcReport(user: SessionUser | null | undefined, id: stri
     .map((x) => ({ key: x.variable, label: labelOf(x.variable), unit: unitOf(x.variable), derived: x.variable in derivedVocabulary, flags: x.flags }));
 
   // Timeline: hourly worst flags, folded to at most 720 columns (max of each group).
-  const hourly = (await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 3600`, [v.id])).rows.map(decodeFlags);
+  const hourly = (await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 3600`, [v.id])).rows.map(decodeFlagsAndCounts);
   let timeline: QcReport["timeline"] = null;
   if (hourly.length) {
     const t0 = Math.min(...hourly.map((r) => r.t0));
@@ -364,7 +361,7 @@ export async function getQcReport(user: SessionUser | null | undefined, id: stri
   }
 
   // Worst stretches: runs of minutes holding suspect or failed values (gaps up to 10 minutes bridged).
-  const minutes = (await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 60`, [v.id])).rows.map(decodeFlags);
+  const minutes = (await pool.query(`select platform, variable, t0, worst_flag, n from plot_series where version_id = $1 and step_s = 60`, [v.id])).rows.map(decodeFlagsAndCounts);
   const stretches: QcStretch[] = [];
   for (const r of minutes) {
     const wf = r.worst_flag as number[];

@@ -25,7 +25,7 @@ afterAll(async () => {
   rmSync(dir, { recursive: true, force: true });
 });
 
-describe("migration 0014 (packed flags)", () => {
+describe("migrations 0014 (packed flags) and 0016 (a partition per version)", () => {
   test("packs every flag column into its place and keeps values, version ranges and guards", async () => {
     const c = admin();
     await c.connect();
