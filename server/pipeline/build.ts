@@ -515,6 +515,9 @@ export async function buildVersion(versionId: string, opts: BuildOptions = {}): 
     clearInterval(ticker);
     ticker = undefined;
     await tick;
+    // A cancel that arrived after the last progress tick still stops the build: nothing is visible before commit.
+    if (cancelled || (await client.query(`select cancel_requested from qc_runs where version_id = $1`, [versionId])).rows[0]?.cancel_requested)
+      throw new BuildCancelled();
     await client.query(`update versions set state = 'ready', summary = $2, state_changed_at = clock_timestamp() where id = $1`, [versionId, summary]);
     await client.query(
       `update qc_runs set state = 'succeeded', stage = 'done', settings = $2, provenance = $3, counts = $4, warnings = $5, timings = $6,

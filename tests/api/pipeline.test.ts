@@ -188,8 +188,9 @@ describe("POST /api/datasets/:id/versions", () => {
   test("cancel stops a running build, keeps nothing, and retry builds it", async () => {
     const { contributor } = roles.users;
     const { datasetId } = await makeMooringDataset(roles.projectId);
-    // Four days at 1 Hz: long enough that the cancel lands while the build is still reading, even on a quiet machine.
-    const durationS = 4 * 86400;
+    // Eight days at 1 Hz: long enough that the cancel lands while the build is still running, even on a quiet machine
+    // (four days took ~1.5 s once builds wrote their own partitions, about one progress tick after the cancel).
+    const durationS = 8 * 86400;
     const uploadId = await storeUpload(datasetId, contributor.id, mooringText({ start: day, durationS, intervalS: 1 }));
     const res = await as(contributor.cookie).post(`/api/datasets/${datasetId}/versions`).send({ uploadId, columnMap: mooringMap(), mode: "replace" });
     expect(res.status).toBe(201);
